@@ -1,0 +1,1 @@
+"""Shaftwright web layer: FastAPI app, routers, store, plots and the printed note."""

@@ -1,0 +1,46 @@
+"""The ``shaftwright`` command: solve, serve, note, study."""
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1]
+DEMO = ROOT / "sample_data" / "countershaft.json"
+
+
+def _load(path: str) -> dict:
+    try:
+        return json.loads(Path(path).read_text(encoding="utf-8"))
+    except (OSError, json.JSONDecodeError) as exc:
+        sys.exit(f"shaftwright: cannot read {path}: {exc}")
+
+
+def cmd_solve(args: argparse.Namespace) -> int:
+    import engine
+    from app.report import text_report
+
+    try:
+        result = engine.solve(_load(args.design))
+    except engine.DesignError as exc:
+        for e in exc.errors:
+            print(f"error: {e.path or '(design)'}: {e.message}", file=sys.stderr)
+        return 2
+    print(result.model_dump_json(indent=1) if args.json else text_report(result))
+    return 0
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(prog="shaftwright", description=__doc__)
+    sub = parser.add_subparsers(dest="command", required=True)
+    p = sub.add_parser("solve", help="solve a design file and print tables (or --json)")
+    p.add_argument("design")
+    p.add_argument("--json", action="store_true", help="print the result document")
+    p.set_defaults(func=cmd_solve)
+    args = parser.parse_args(argv)
+    return args.func(args)
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())

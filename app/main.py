@@ -1,0 +1,22 @@
+"""Build the FastAPI application: ``create_app()`` includes one router per feature."""
+from __future__ import annotations
+
+from pathlib import Path
+
+from fastapi import FastAPI
+from fastapi.staticfiles import StaticFiles
+
+import engine
+from app.routers import api, designs, pages, studies
+
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def create_app() -> FastAPI:
+    app = FastAPI(title="Shaftwright", version=engine.__version__,
+                  description="Shaft-and-bearing arrangement designer. Results inform preliminary "
+                              "design only; verify with supplier data and a qualified engineer.")
+    app.mount("/static", StaticFiles(directory=ROOT / "static"), name="static")
+    for module in (pages, api, designs, studies):
+        app.include_router(module.router)
+    return app

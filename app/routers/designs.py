@@ -1,0 +1,4 @@
+"""Router: designs (placeholder until its feature lands)."""
+from fastapi import APIRouter
+
+router = APIRouter()

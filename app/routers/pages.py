@@ -1,0 +1,4 @@
+"""Router: pages (placeholder until its feature lands)."""
+from fastapi import APIRouter
+
+router = APIRouter()

@@ -1,0 +1,4 @@
+"""Router: studies (placeholder until its feature lands)."""
+from fastapi import APIRouter
+
+router = APIRouter()

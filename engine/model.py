@@ -1,0 +1,433 @@
+"""The design document (format ``shaft-design/1``) as immutable pydantic models.
+
+Every key of the contract in ``design-format.md`` is here, with its unit in its name.
+Units inside the engine: mm, N, N·mm for moments in the solver, N·m at the boundary,
+rpm, MPa, GPa, kg. Axes: x along the shaft from its left end, y and z transverse,
+right-handed; angles about the shaft axis are measured about +x from +y toward +z.
+
+Public entry point: :func:`parse_design` turns a JSON-like mapping into a :class:`Design`
+or raises :class:`DesignError` carrying *every* problem found, each with the key path
+(``supports[1].x_mm``) and a sentence a designer understands.
+"""
+from __future__ import annotations
+
+from typing import Annotated, Any, Literal, Union
+
+from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator
+
+__all__ = [
+    "FORMAT", "BEARING_TYPES", "ELEMENT_KINDS", "Issue", "DesignError", "EngineError",
+    "Material", "Segment", "Groove", "Shaft", "Support",
+    "Gear", "BevelGear", "Pulley", "Sprocket", "Coupling", "PointForce", "PointMoment",
+    "Element", "LoadCase", "Lubricant", "Requirements", "Gravity", "Analysis", "Design",
+    "parse_design", "TORQUE_TOLERANCE",
+]
+
+FORMAT = "shaft-design/1"
+TORQUE_TOLERANCE = 0.005  # torques must balance within 0.5 % of the largest (contract)
+
+BearingType = Literal[
+    "deep_groove_ball", "angular_contact_ball", "self_aligning_ball", "cylindrical_roller",
+    "tapered_roller", "spherical_roller", "needle_roller",
+]
+BEARING_TYPES: tuple[str, ...] = BearingType.__args__  # type: ignore[attr-defined]
+AxialRole = Literal["both", "none", "+x", "-x"]
+
+Pos = Annotated[float, Field(gt=0)]
+NonNeg = Annotated[float, Field(ge=0)]
+
+
+class _Doc(BaseModel):
+    model_config = ConfigDict(extra="forbid", frozen=True, allow_inf_nan=False)
+
+
+class Issue(_Doc):
+    """One problem with the input: where it is (key path) and what is wrong."""
+
+    path: str
+    message: str
+
+
+class DesignError(ValueError):
+    """Bad input. ``errors`` lists every problem, each with its key path."""
+
+    def __init__(self, errors: list[Issue]):
+        self.errors = errors
+        super().__init__("; ".join(f"{e.path}: {e.message}" for e in errors))
+
+
+class EngineError(DesignError):
+    """A design that is well formed but cannot be solved as laid out (e.g. an axial force
+    that no support takes, an axially over-constrained arrangement). Same shape as DesignError."""
+
+    @classmethod
+    def at(cls, path: str, message: str) -> "EngineError":
+        return cls([Issue(path=path, message=message)])
+
+
+# --- shaft -------------------------------------------------------------------------------
+
+class Material(_Doc):
+    name: str = "steel"
+    E_GPa: Pos = 205.0
+    G_GPa: Pos = 80.0
+    density_kg_m3: Pos = 7850.0
+    Su_MPa: Pos = 850.0
+    Sy_MPa: Pos = 650.0
+    Se_MPa: Pos | None = None  # rotating-beam endurance limit; default estimated from Su
+
+
+class Groove(_Doc):
+    """A retaining-ring groove cut into the shaft (a stress raiser for the strength check)."""
+
+    x_mm: NonNeg
+    depth_mm: Pos
+    width_mm: Pos = 1.3
+    r_mm: Pos = 0.1
+
+
+class Segment(_Doc):
+    length_mm: Pos
+    d_mm: Pos
+    bore_mm: NonNeg = 0.0
+    fillet_r_mm: Pos | None = None  # shoulder radius at the segment's left end
+    surface: Literal["ground", "machined", "hot_rolled", "as_forged"] = "machined"
+
+
+class Shaft(_Doc):
+    material: Material = Material()
+    segments: list[Segment] = Field(min_length=1)
+    grooves: list[Groove] = []
+
+    @property
+    def length_mm(self) -> float:
+        return sum(s.length_mm for s in self.segments)
+
+    def edges_mm(self) -> list[float]:
+        """x of every segment boundary, 0 … L."""
+        xs = [0.0]
+        for s in self.segments:
+            xs.append(xs[-1] + s.length_mm)
+        return xs
+
+    def diameter_at(self, x_mm: float) -> float:
+        """Outer diameter at x; at a step, the smaller of the two (a bearing seats there)."""
+        edges = self.edges_mm()
+        ds = []
+        for s, a, b in zip(self.segments, edges[:-1], edges[1:]):
+            if a - 1e-9 <= x_mm <= b + 1e-9:
+                ds.append(s.d_mm)
+        return min(ds) if ds else self.segments[-1].d_mm
+
+
+# --- supports ----------------------------------------------------------------------------
+
+class Support(_Doc):
+    id: str = Field(min_length=1, max_length=40)
+    x_mm: NonNeg
+    bearing_type: BearingType | None = "deep_groove_ball"
+    axial: AxialRole = "none"
+    contact_angle_deg: Annotated[float, Field(gt=0, lt=90)] | None = None
+    radial_stiffness_N_per_mm: Pos | None = None
+    bore_mm: Pos | None = None
+    dimension_series: list[str] | None = None  # restrict candidates, e.g. ["02", "03"]
+    misalignment_limit_rad: Pos | None = None  # overrides the type's default slope limit
+
+
+# --- elements ----------------------------------------------------------------------------
+
+class _Element(_Doc):
+    id: str = Field(min_length=1, max_length=40)
+    x_mm: NonNeg
+    mass_kg: NonNeg = 0.0
+    keyway: Literal["end_milled", "sled_runner"] | None = None
+    press_fit: bool = False
+    width_mm: Pos | None = None  # hub or face width, for the drawing and the seat
+
+
+class _Driving(_Element):
+    torque_Nm: float | None = None
+
+
+class Gear(_Driving):
+    kind: Literal["gear"] = "gear"
+    pitch_d_mm: Pos
+    pressure_angle_deg: Annotated[float, Field(gt=0, lt=45)] = 20.0
+    helix_angle_deg: Annotated[float, Field(ge=0, lt=60)] = 0.0
+    hand: Literal["right", "left"] | None = None
+    mesh_angle_deg: float = 0.0
+    mate_slope_rad: float | None = None  # slope of the mating gear's shaft at the mesh, if known
+
+
+class BevelGear(_Driving):
+    kind: Literal["bevel_gear"] = "bevel_gear"
+    pitch_d_mm: Pos  # mean pitch diameter
+    pressure_angle_deg: Annotated[float, Field(gt=0, lt=45)] = 20.0
+    pitch_cone_angle_deg: Annotated[float, Field(gt=0, lt=90)]
+    apex: Literal["+x", "-x"]
+    mesh_angle_deg: float = 0.0
+
+
+class Pulley(_Driving):
+    kind: Literal["pulley"] = "pulley"
+    pitch_d_mm: Pos
+    strand_angle_deg: float = 0.0
+    wrap_angle_deg: Annotated[float, Field(gt=0, le=360)] = 180.0
+    tension_ratio: Annotated[float, Field(gt=1)] | None = None
+    pull_factor: Pos | None = None
+
+
+class Sprocket(_Driving):
+    kind: Literal["sprocket"] = "sprocket"
+    pitch_d_mm: Pos
+    strand_angle_deg: float = 0.0
+    wrap_angle_deg: Annotated[float, Field(gt=0, le=360)] = 180.0
+
+
+class Coupling(_Driving):
+    kind: Literal["coupling"] = "coupling"
+
+
+class PointForce(_Element):
+    kind: Literal["force"] = "force"
+    Fx_N: float = 0.0
+    Fy_N: float = 0.0
+    Fz_N: float = 0.0
+    arm_y_mm: float = 0.0
+    arm_z_mm: float = 0.0
+
+
+class PointMoment(_Element):
+    kind: Literal["moment"] = "moment"
+    My_Nm: float = 0.0
+    Mz_Nm: float = 0.0
+
+
+Element = Annotated[
+    Union[Gear, BevelGear, Pulley, Sprocket, Coupling, PointForce, PointMoment],
+    Field(discriminator="kind"),
+]
+ELEMENT_KINDS = ("gear", "bevel_gear", "pulley", "sprocket", "coupling", "force", "moment")
+TORQUE_KINDS = ("gear", "bevel_gear", "pulley", "sprocket", "coupling")
+
+
+# --- duty, requirements ------------------------------------------------------------------
+
+class LoadCase(_Doc):
+    name: str = Field(min_length=1, max_length=60)
+    time_fraction: Annotated[float, Field(gt=0, le=1)] = 1.0
+    speed_rpm: Pos
+    torque_factor: float = 1.0
+    force_factor: float = 1.0
+    torques_Nm: dict[str, float] = {}
+
+
+class Lubricant(_Doc):
+    iso_vg: Annotated[float, Field(ge=2, le=3200)]
+    operating_temp_C: Annotated[float, Field(ge=-40, le=200)]
+    viscosity_index: Annotated[float, Field(ge=0, le=400)] = 95.0
+
+
+class Requirements(_Doc):
+    life_h: Pos = 20000.0
+    reliability_pct: Annotated[float, Field(ge=90, lt=100)] = 90.0
+    reliability_method: Literal["iso281", "weibull"] = "iso281"
+    application_factor: Annotated[float, Field(ge=1)] = 1.0
+    s0_min: Pos = 1.0
+    lubricant: Lubricant | None = None
+    contamination_ec: Annotated[float, Field(ge=0, le=1)] | None = None
+    # shaft checks (defaults are common practice, stated where they are used)
+    fatigue_criterion: Literal["de_goodman", "de_gerber", "asme_elliptic", "soderberg"] = "de_goodman"
+    fatigue_safety_min: Pos = 1.5
+    yield_safety_min: Pos = 1.5
+    critical_speed_margin_pct: Annotated[float, Field(ge=0, lt=100)] = 20.0
+    gear_deflection_max_mm: Pos = 0.13
+    gear_slope_max_rad: Pos = 0.0005
+
+
+class Gravity(_Doc):
+    direction: Literal["-y", "+y", "-z", "+z", "-x", "+x"] = "-y"
+    g_m_s2: Pos = 9.80665
+
+
+class Analysis(_Doc):
+    """Solver settings: element count and whether shear deformation is included."""
+
+    elements: Annotated[int, Field(ge=10, le=2000)] = 120
+    shear_deformation: bool = True
+
+
+class Design(_Doc):
+    format: Literal["shaft-design/1"] = FORMAT
+    name: str = Field(default="untitled shaft", max_length=200)
+    notes: str = Field(default="", max_length=20000)
+    shaft: Shaft
+    supports: list[Support]
+    elements: list[Element] = []
+    load_cases: list[LoadCase] = Field(min_length=1)
+    requirements: Requirements = Requirements()
+    gravity: Gravity | None = Gravity()
+    analysis: Analysis = Analysis()
+
+    def support(self, sid: str) -> Support:
+        return next(s for s in self.supports if s.id == sid)
+
+    def element(self, eid: str) -> Any:
+        return next(e for e in self.elements if e.id == eid)
+
+
+# --- validation --------------------------------------------------------------------------
+
+def _path(loc: tuple) -> str:
+    out = ""
+    for part in loc:
+        if isinstance(part, int):
+            out += f"[{part}]"
+        elif part in ELEMENT_KINDS and out.startswith("elements"):
+            continue  # the discriminated union adds the kind to the location
+        else:
+            out += ("." if out else "") + str(part)
+    return out
+
+
+def _message(err: dict) -> str:
+    t, ctx, field = err["type"], err.get("ctx", {}), str(err["loc"][-1]) if err["loc"] else "value"
+    if t == "missing":
+        return f"'{field}' is required"
+    if t == "extra_forbidden":
+        return f"'{field}' is not a key of this part of the design (check its spelling)"
+    if t in ("greater_than", "greater_than_equal", "less_than", "less_than_equal"):
+        word = {"greater_than": "greater than", "greater_than_equal": "at least",
+                "less_than": "less than", "less_than_equal": "at most"}[t]
+        bound = next(iter(ctx.values())) if ctx else "?"
+        return f"'{field}' must be {word} {bound}, got {err.get('input')!r}"
+    if t == "finite_number":
+        return f"'{field}' must be a finite number, got {err.get('input')!r}"
+    if t in ("float_parsing", "float_type", "int_parsing", "int_type", "int_from_float"):
+        return f"'{field}' must be a number, got {err.get('input')!r}"
+    if t == "union_tag_invalid":
+        return (f"unknown element kind {ctx.get('tag')!r}; use one of "
+                f"{', '.join(ELEMENT_KINDS)}")
+    if t == "union_tag_not_found":
+        return f"every element needs a 'kind' ({', '.join(ELEMENT_KINDS)})"
+    if t == "literal_error":
+        return f"'{field}' must be one of {ctx.get('expected')}, got {err.get('input')!r}"
+    if t == "too_short":
+        return f"'{field}' needs at least {ctx.get('min_length')} entr{'y' if ctx.get('min_length') == 1 else 'ies'}"
+    if t == "too_long":
+        return f"'{field}' is too long (at most {ctx.get('max_length')})"
+    return f"'{field}': {err['msg']}"
+
+
+def _semantic(d: Design) -> list[Issue]:
+    """Checks across fields, all collected: geometry, ids, duty cycle, torque balance."""
+    bad: list[Issue] = []
+    add = lambda p, m: bad.append(Issue(path=p, message=m))  # noqa: E731
+    L = d.shaft.length_mm
+    for i, s in enumerate(d.shaft.segments):
+        if s.bore_mm >= s.d_mm:
+            add(f"shaft.segments[{i}].bore_mm",
+                f"bore {s.bore_mm:g} mm must be smaller than the diameter {s.d_mm:g} mm")
+        if s.fillet_r_mm is not None and i > 0 and s.fillet_r_mm >= 0.5 * min(s.d_mm, d.shaft.segments[i - 1].d_mm):
+            add(f"shaft.segments[{i}].fillet_r_mm", "fillet radius must be less than half the smaller diameter")
+    for i, g in enumerate(d.shaft.grooves):
+        if g.x_mm > L:
+            add(f"shaft.grooves[{i}].x_mm", f"groove at {g.x_mm:g} mm lies off the shaft (length {L:g} mm)")
+        elif g.depth_mm >= 0.5 * d.shaft.diameter_at(g.x_mm):
+            add(f"shaft.grooves[{i}].depth_mm", "groove depth must be less than the shaft radius")
+
+    if len(d.supports) < 2:
+        add("supports", f"a shaft needs at least two supports; this design has {len(d.supports)}")
+    for kind, items in (("supports", d.supports), ("elements", d.elements)):
+        seen: dict[str, int] = {}
+        for i, it in enumerate(items):
+            if it.x_mm > L + 1e-9:
+                add(f"{kind}[{i}].x_mm", f"{it.id} at x = {it.x_mm:g} mm lies off the shaft (length {L:g} mm)")
+            if it.id in seen:
+                add(f"{kind}[{i}].id", f"id '{it.id}' is used twice ({kind}[{seen[it.id]}] and {kind}[{i}])")
+            seen.setdefault(it.id, i)
+    ids_sup = {s.id for s in d.supports}
+    for i, e in enumerate(d.elements):
+        if e.id in ids_sup:
+            add(f"elements[{i}].id", f"id '{e.id}' is also a support's id; give it its own")
+    xs: dict[float, int] = {}
+    for i, s in enumerate(d.supports):
+        key = round(s.x_mm, 6)
+        if key in xs:
+            add(f"supports[{i}].x_mm", f"supports {d.supports[xs[key]].id} and {s.id} are both at x = {s.x_mm:g} mm")
+        xs.setdefault(key, i)
+        if s.bearing_type is None and s.axial not in ("both", "none"):
+            add(f"supports[{i}].axial", "a plain support without a bearing can only be 'both' or 'none'")
+    locating = [i for i, s in enumerate(d.supports) if s.axial == "both"]
+    if len(locating) > 1:
+        names = ", ".join(d.supports[i].id for i in locating)
+        add(f"supports[{locating[1]}].axial",
+            f"more than one support locates the shaft both ways ({names}): the shaft is axially "
+            "over-constrained; let all but one float ('none') or use a '+x'/'-x' pair")
+
+    for i, e in enumerate(d.elements):
+        if e.kind == "gear" and e.helix_angle_deg > 0 and e.hand is None:
+            add(f"elements[{i}].hand", f"helical gear {e.id} needs 'hand' (right or left)")
+        if e.kind == "pulley" and (e.tension_ratio is None) == (e.pull_factor is None):
+            add(f"elements[{i}].tension_ratio", f"pulley {e.id} needs exactly one of 'tension_ratio' or 'pull_factor'")
+
+    total = sum(c.time_fraction for c in d.load_cases)
+    if abs(total - 1.0) > 1e-6:
+        add("load_cases", f"time fractions sum to {total:.4g}; they must sum to 1")
+    names: dict[str, int] = {}
+    eids = {e.id: e for e in d.elements}
+    for j, c in enumerate(d.load_cases):
+        if c.name in names:
+            add(f"load_cases[{j}].name", f"load case name '{c.name}' is used twice")
+        names.setdefault(c.name, j)
+        for k in c.torques_Nm:
+            if k not in eids or eids[k].kind not in TORQUE_KINDS:
+                add(f"load_cases[{j}].torques_Nm.{k}", f"'{k}' is not an element that carries torque")
+
+    nulls = [i for i, e in enumerate(d.elements) if e.kind in TORQUE_KINDS and e.torque_Nm is None]
+    if len(nulls) > 1:
+        add(f"elements[{nulls[1]}].torque_Nm",
+            "only one element may leave its torque empty (the balancing one); "
+            f"{', '.join(d.elements[i].id for i in nulls)} all do")
+    elif not bad:
+        from engine.loads import torque_imbalance  # local: loads imports this module
+
+        for j, c in enumerate(d.load_cases):
+            imb, largest = torque_imbalance(d, c)
+            if imb is not None and abs(imb) > TORQUE_TOLERANCE * max(largest, 1e-9) and largest > 0:
+                where = "elements" if not c.torques_Nm else f"load_cases[{j}].torques_Nm"
+                add(where, f"in load case '{c.name}' the element torques do not balance: they sum to "
+                           f"{imb:+.4g} N·m (largest {largest:.4g} N·m); make one torque empty to balance, "
+                           "or correct them")
+    return bad
+
+
+def parse_design(data: Any) -> Design:
+    """Validate a JSON-like mapping into a :class:`Design`; raise :class:`DesignError` with all problems.
+
+    Structural problems (missing keys, wrong types, non-positive sizes, non-finite numbers,
+    unknown kinds or keys) and cross-field problems (geometry, ids, duty cycle, torque balance)
+    are both reported; the cross-field ones are checked once the structure is sound.
+    """
+    if isinstance(data, Design):
+        return data
+    if not isinstance(data, dict):
+        raise DesignError([Issue(path="", message="a design must be a JSON object")])
+    try:
+        design = Design.model_validate(data)
+    except ValidationError as exc:
+        issues = [Issue(path=_path(e["loc"]), message=_message(e)) for e in exc.errors()]
+        raise DesignError(_dedupe(issues)) from None
+    bad = _semantic(design)
+    if bad:
+        raise DesignError(bad)
+    return design
+
+
+def _dedupe(issues: list[Issue]) -> list[Issue]:
+    seen, out = set(), []
+    for i in issues:
+        if (i.path, i.message) not in seen:
+            seen.add((i.path, i.message))
+            out.append(i)
+    return out
