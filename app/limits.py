@@ -1,0 +1,118 @@
+"""Limits on incoming design documents, applied before any parsing or solving.
+
+Every route that takes a design (save, import, solve, note) calls :func:`read_json` on the
+request (or :func:`parse_json` on text it already holds, or :func:`check_counts` on an object
+it already parsed). A document larger than ``max_document_bytes`` (default 1 000 000 bytes),
+nested deeper than :data:`MAX_DEPTH`, or with a list (or mapping) of more than ``max_items``
+entries (default 500: far beyond any real shaft, small enough that a hostile document cannot
+tie up a worker) is refused with a :class:`LimitError` whose message names the key path.
+
+:class:`LimitError` is an :class:`engine.model.DesignError`, so it shows like any other input
+error; its ``status_code`` (413 for size, 422 otherwise) is what an HTTP route answers.
+"""
+from __future__ import annotations
+
+import json
+from typing import Any
+
+from engine.model import DesignError, Issue
+
+from app.settings import Settings, get_settings
+
+__all__ = ["LimitError", "MAX_DEPTH", "check_size", "parse_json", "check_counts",
+           "guard_document", "read_json"]
+
+MAX_DEPTH = 12  # a design is at most 5 levels deep; common practice for JSON bombs: cap it
+
+
+class LimitError(DesignError):
+    """An input refused for its size, depth or counts (or because it is not JSON)."""
+
+    def __init__(self, path: str, message: str, *, status_code: int = 422):
+        self.status_code = status_code
+        super().__init__([Issue(path=path, message=message)])
+
+
+def _settings(settings: Settings | None) -> Settings:
+    return settings if settings is not None else get_settings()
+
+
+def check_size(raw: bytes | str, *, settings: Settings | None = None) -> None:
+    """Refuse a body over the byte limit (status 413)."""
+    limit = _settings(settings).max_document_bytes
+    size = len(raw.encode("utf-8")) if isinstance(raw, str) else len(raw)
+    if size > limit:
+        raise LimitError("", f"the document is {size:,} bytes; at most {limit:,} bytes are accepted",
+                         status_code=413)
+
+
+def _no_constant(name: str) -> float:
+    raise ValueError(f"{name} is not a number a design may hold")
+
+
+def parse_json(raw: bytes | str, *, settings: Settings | None = None) -> Any:
+    """Size check, then JSON, then the depth and count checks; the parsed value."""
+    settings = _settings(settings)
+    check_size(raw, settings=settings)
+    try:
+        value = json.loads(raw, parse_constant=_no_constant)
+    except RecursionError:
+        raise LimitError("", f"the document is nested too deeply (at most {MAX_DEPTH} levels)") from None
+    except UnicodeDecodeError:
+        raise LimitError("", "the document is not UTF-8 text") from None
+    except ValueError as exc:  # JSONDecodeError included
+        raise LimitError("", f"the document is not valid JSON: {exc}") from None
+    check_counts(value, settings=settings)
+    return value
+
+
+def check_counts(value: Any, *, settings: Settings | None = None) -> None:
+    """Refuse nesting deeper than MAX_DEPTH and any list or mapping longer than max_items."""
+    limit = _settings(settings).max_items
+    stack: list[tuple[Any, str, int]] = [(value, "", 0)]
+    while stack:
+        item, path, depth = stack.pop()
+        if depth > MAX_DEPTH:
+            raise LimitError(path, f"the document is nested too deeply (at most {MAX_DEPTH} levels)")
+        if isinstance(item, dict):
+            if len(item) > limit:
+                raise LimitError(path, f"{len(item):,} keys here; at most {limit:,} are accepted")
+            for k, v in item.items():
+                if isinstance(v, (dict, list)):
+                    stack.append((v, f"{path}.{k}" if path else str(k), depth + 1))
+        elif isinstance(item, list):
+            if len(item) > limit:
+                what = path.rsplit(".", 1)[-1] or "entries"
+                raise LimitError(path, f"the design has {len(item):,} {what}; at most {limit:,} are accepted")
+            for i, v in enumerate(item):
+                if isinstance(v, (dict, list)):
+                    stack.append((v, f"{path}[{i}]", depth + 1))
+
+
+def guard_document(value: Any, *, settings: Settings | None = None) -> Any:
+    """Apply every limit to an object parsed elsewhere (counts, depth, and its JSON size)."""
+    check_counts(value, settings=settings)
+    try:
+        text = json.dumps(value, ensure_ascii=False, allow_nan=False, separators=(",", ":"))
+    except ValueError:
+        raise LimitError("", "the document holds a number that is not finite (NaN or infinity)") from None
+    check_size(text, settings=settings)
+    return value
+
+
+async def read_json(request, *, settings: Settings | None = None) -> Any:
+    """Read a request body under the byte limit (stops reading once over it), then parse it."""
+    settings = _settings(settings)
+    limit = settings.max_document_bytes
+    declared = request.headers.get("content-length", "")
+    if declared.isdigit() and int(declared) > limit:
+        raise LimitError("", f"the document is {int(declared):,} bytes; at most {limit:,} bytes are "
+                             "accepted", status_code=413)
+    chunks, size = [], 0
+    async for chunk in request.stream():
+        size += len(chunk)
+        if size > limit:
+            raise LimitError("", f"the document is over {limit:,} bytes, the most accepted",
+                             status_code=413)
+        chunks.append(chunk)
+    return parse_json(b"".join(chunks), settings=settings)
