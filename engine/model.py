@@ -392,13 +392,14 @@ def _semantic(d: Design) -> list[Issue]:
     elif not bad:
         from engine.loads import torque_imbalance  # local: loads imports this module
 
-        for j, c in enumerate(d.load_cases):
-            imb, largest = torque_imbalance(d, c)
-            if imb is not None and abs(imb) > TORQUE_TOLERANCE * max(largest, 1e-9) and largest > 0:
-                where = "elements" if not c.torques_Nm else f"load_cases[{j}].torques_Nm"
-                add(where, f"in load case '{c.name}' the element torques do not balance: they sum to "
-                           f"{imb:+.4g} N·m (largest {largest:.4g} N·m); make one torque empty to balance, "
-                           "or correct them")
+        checks = [("elements", "the design", LoadCase(name="given", speed_rpm=1.0))]
+        checks += [(f"load_cases[{j}].torques_Nm", f"load case '{c.name}'", c)
+                   for j, c in enumerate(d.load_cases) if c.torques_Nm]
+        for where, what, case in checks:
+            imb, largest = torque_imbalance(d, case)
+            if imb is not None and largest > 0 and abs(imb) > TORQUE_TOLERANCE * largest:
+                add(where, f"in {what} the element torques do not balance: they sum to {imb:+.4g} N·m "
+                           f"(largest {largest:.4g} N·m); leave one torque empty to balance them, or correct them")
     return bad
 
 
