@@ -31,6 +31,19 @@ def cmd_solve(args: argparse.Namespace) -> int:
     return 0
 
 
+def cmd_serve(args: argparse.Namespace) -> int:
+    from app.server import run
+
+    run(host=args.host, port=args.port)
+    return 0
+
+
+def cmd_note(args: argparse.Namespace) -> int:
+    from app.note import cmd_note as note
+
+    return note(args)
+
+
 def main(argv: list[str] | None = None) -> int:
     parser = argparse.ArgumentParser(prog="shaftwright", description=__doc__)
     sub = parser.add_subparsers(dest="command", required=True)
@@ -38,6 +51,14 @@ def main(argv: list[str] | None = None) -> int:
     p.add_argument("design")
     p.add_argument("--json", action="store_true", help="print the result document")
     p.set_defaults(func=cmd_solve)
+    p = sub.add_parser("serve", help="run the web app (opens on the demo design)")
+    p.add_argument("--host", default="127.0.0.1")
+    p.add_argument("--port", type=int, default=8000)
+    p.set_defaults(func=cmd_serve)
+    p = sub.add_parser("note", help="print a design's note to PDF through headless Chromium")
+    p.add_argument("design")
+    p.add_argument("-o", "--output", default="note.pdf")
+    p.set_defaults(func=cmd_note)
     args = parser.parse_args(argv)
     return args.func(args)
 
