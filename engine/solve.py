@@ -97,8 +97,10 @@ def _diagrams(a: Analysis) -> Diagrams:
     return Diagrams(x_mm=x.tolist(), load_cases=out)
 
 
-def solve(design_data: Any) -> Result:
+def solve(design_data: Any, *, diagrams: bool = True) -> Result:
     """Solve a design document (mapping or :class:`Design`) and return the :class:`Result`.
+
+    ``diagrams=False`` leaves the along-x arrays empty (for studies of many variants).
 
     Raises :class:`engine.model.DesignError` (bad input) or :class:`EngineError` (a design
     that cannot be solved as laid out), each listing the key paths at fault.
@@ -130,5 +132,5 @@ def solve(design_data: Any) -> Result:
     return Result(
         engine_version=engine.__version__, load_cases=cases,
         shaft=ShaftSummary(max_deflection_mm=float(u_res.max()), mass_kg=mass, length_mm=design.shaft.length_mm),
-        diagrams=_diagrams(a),
+        diagrams=_diagrams(a) if diagrams else Diagrams(x_mm=[], load_cases={}),
     )
