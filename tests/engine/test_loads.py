@@ -134,3 +134,12 @@ def test_reactions_balance_every_applied_force(countershaft):
         for k, extra in (("Fx_N", 0.0), ("Fy_N", -w), ("Fz_N", 0.0)):
             applied = sum(getattr(e, k) for e in c.elements) + extra
             assert sum(getattr(s, k) for s in c.supports) == pytest.approx(-applied, abs=1e-6 * 1e4)
+
+
+def test_axial_force_that_no_support_takes_is_an_error(countershaft):
+    for s in countershaft["supports"]:
+        s["axial"] = "none"
+    with pytest.raises(engine.EngineError) as exc:
+        engine.solve(countershaft)
+    (issue,) = exc.value.errors
+    assert issue.path == "supports" and "toward +x" in issue.message and "'axial'" in issue.message
