@@ -75,9 +75,12 @@ def line_chart(x: Sequence[float], series: Sequence[tuple[str, Sequence[float]]]
     if not xs or not ys_all:
         parts.append(f'<text x="{ml}" y="{mt + lh / 2}" font-size="12">no data</text></svg>')
         return Markup("".join(parts))
-    xt = nice_ticks(min(xs), max(xs), count=6)
     yt = nice_ticks(min(min(ys_all), 0.0), max(max(ys_all), 0.0), count=4)
-    x0, x1, y0, y1 = xt[0], xt[-1], yt[0], yt[-1]
+    y0, y1 = yt[0], yt[-1]
+    x0, x1 = min(xs), max(xs)
+    if x1 - x0 < 1e-12:
+        x0, x1 = x0 - 1.0, x1 + 1.0
+    xt = [t for t in nice_ticks(x0, x1, count=6) if x0 - 1e-9 <= t <= x1 + 1e-9]
 
     def px(v: float) -> float:
         return ml + (v - x0) / (x1 - x0) * lw

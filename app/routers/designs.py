@@ -1,4 +1,455 @@
-"""Router: designs (placeholder until its feature lands)."""
-from fastapi import APIRouter
+"""Router: stored designs — the JSON API, share links, history, comparison, the note.
+
+JSON API (every body that holds a design goes through :mod:`app.limits` first):
+
+- ``POST /api/designs`` — a design (or ``{"design", "author", "comment"}``) → 201
+  ``{"id", "revision": 1, "url", ...}``
+- ``GET /api/designs/{id}`` — the latest revision
+- ``GET /api/designs/{id}/revisions`` — the list, without documents
+- ``GET /api/designs/{id}/revisions/{n}`` — one revision
+- ``POST /api/designs/{id}/revisions`` — ``{"design", "base_revision", "author", "comment"}``
+  → 201, or 409 when ``base_revision`` is not the latest: the answer lists what changed and
+  names the conflict record that keeps the refused document
+- ``GET /api/designs/{id}/conflicts/{k}`` — a refused save, kept
+- ``GET /api/designs/{id}/revisions/{n}/export`` — the design as a JSON file
+- ``POST /api/designs/import`` — a JSON file (multipart ``file``) → a new design; a bad file
+  answers 422 with every reason and stores nothing
+
+Pages:
+
+- ``/d/{id}`` — the latest revision in the editor (``?from=n`` edits revision n on top of
+  the latest); ``/d/{id}/r/{n}`` — a fixed revision, read-only until "Edit this revision"
+- ``/d/{id}/revisions`` — the history; ``/d/{id}/compare?a=&b=`` — two revisions side by side
+- ``/d/{id}/r/{n}/note`` — the design note, made for printing
+- ``POST /d/save`` — the editor's share panel (``partials/share_panel.html``) posts the
+  editor form plus ``share_design_id``, ``share_base_revision``, ``share_author``,
+  ``share_comment``; the answer is the panel again (saved, conflict, or errors)
+- ``POST /d/import`` — the import form; on success a redirect to the new design
+"""
+from __future__ import annotations
+
+import inspect
+import json
+import re
+from typing import Any
+
+from fastapi import APIRouter, Request, UploadFile
+from fastapi.responses import HTMLResponse, JSONResponse, RedirectResponse, Response
+
+import engine
+from app.limits import LimitError, check_counts, parse_json, read_json
+from app.note import (TEMPLATES, NoteMeta, compare_results, diff_documents, note_context,
+                      solve_or_errors)
+from app.settings import get_settings
+from app.store import NotFound, Revision, StaleBase, Store, StoreDep, is_design_id
+from engine.model import DesignError, Issue, parse_design
+
+__all__ = ["router", "MAX_AUTHOR", "MAX_COMMENT"]
 
 router = APIRouter()
+
+MAX_AUTHOR = 100
+MAX_COMMENT = 2000
+
+
+# --- helpers ------------------------------------------------------------------------------
+
+def _errors(exc: DesignError) -> list[dict[str, str]]:
+    return [{"path": e.path, "message": e.message} for e in exc.errors]
+
+
+def _error_response(exc: DesignError) -> JSONResponse:
+    status = getattr(exc, "status_code", 422)
+    return JSONResponse({"detail": str(exc) or "invalid design", "errors": _errors(exc)},
+                        status_code=status)
+
+
+def _not_found(exc: NotFound) -> JSONResponse:
+    return JSONResponse({"detail": str(exc)}, status_code=404)
+
+
+def _text(value: Any, path: str, limit: int) -> str:
+    if value is None:
+        return ""
+    if not isinstance(value, str):
+        raise DesignError([Issue(path=path, message=f"'{path}' must be text")])
+    if len(value) > limit:
+        raise DesignError([Issue(path=path, message=f"'{path}' is too long (at most {limit} characters)")])
+    return value.strip()
+
+
+def _validated(document: Any) -> dict:
+    """The document if it is a valid design (as given, keys untouched); else DesignError."""
+    check_counts(document)
+    parse_design(document)
+    return document
+
+
+def _split_body(body: Any, *, wrapped: bool) -> tuple[dict, str, str, Any]:
+    """(design, author, comment, base_revision) from a request body."""
+    if not isinstance(body, dict):
+        raise DesignError([Issue(path="", message="the body must be a JSON object")])
+    if wrapped or "design" in body:
+        if "design" not in body:
+            raise DesignError([Issue(path="design", message="'design' is required")])
+        design = body["design"]
+        extra = set(body) - {"design", "author", "comment", "base_revision"}
+        if extra:
+            raise DesignError([Issue(path=k, message=f"'{k}' is not a key of a save request")
+                               for k in sorted(extra)])
+        base = body.get("base_revision")
+        if base is not None and (isinstance(base, bool) or not isinstance(base, int) or base < 1):
+            raise DesignError([Issue(path="base_revision",
+                                     message="'base_revision' must be a revision number (1, 2, …)")])
+        return (_validated(design), _text(body.get("author"), "author", MAX_AUTHOR),
+                _text(body.get("comment"), "comment", MAX_COMMENT), base)
+    return _validated(body), "", "", None
+
+
+def _urls(design_id: str, n: int | None = None) -> dict[str, str]:
+    out = {"url": f"/d/{design_id}", "api_url": f"/api/designs/{design_id}",
+           "revisions_url": f"/d/{design_id}/revisions"}
+    if n is not None:
+        out.update(revision_url=f"/d/{design_id}/r/{n}", note_url=f"/d/{design_id}/r/{n}/note",
+                   export_url=f"/api/designs/{design_id}/revisions/{n}/export")
+    return out
+
+
+def _revision_json(rev: Revision) -> dict[str, Any]:
+    return {"id": rev.design_id, "revision": rev.n, "design": rev.document, "name": rev.name,
+            "author": rev.author, "comment": rev.comment, "created_at": rev.created_at,
+            "engine_version": rev.engine_version, "base_revision": rev.base_revision,
+            **_urls(rev.design_id, rev.n)}
+
+
+def _check_id(design_id: str) -> None:
+    if not is_design_id(design_id):
+        raise NotFound(f"no design {design_id!r}")
+
+
+def _conflict_json(exc: StaleBase, document: dict) -> dict[str, Any]:
+    latest = exc.latest
+    return {
+        "detail": (f"revision {exc.base_revision} is not the latest: revision {latest.n} was saved "
+                   f"since. Your version is kept as conflict record {exc.conflict_id}; nothing "
+                   "was overwritten. Review the changes, then save again on top of "
+                   f"revision {latest.n}."),
+        "id": exc.design_id, "base_revision": exc.base_revision, "latest_revision": latest.n,
+        "conflict_id": exc.conflict_id,
+        "conflict_url": f"/api/designs/{exc.design_id}/conflicts/{exc.conflict_id}",
+        "changes": [c.__dict__ for c in diff_documents(latest.document, document)],
+        "latest": _revision_json(latest),
+    }
+
+
+def _save(store: Store, design_id: str | None, document: dict, *, author: str, comment: str,
+          base: int | None) -> Revision:
+    version = engine.__version__
+    if design_id is None:
+        return store.create(document, author=author, comment=comment, engine_version=version)
+    return store.add_revision(design_id, document, base_revision=base, author=author,
+                              comment=comment, engine_version=version)
+
+
+def _slug(name: str) -> str:
+    s = re.sub(r"[^A-Za-z0-9]+", "-", name).strip("-").lower()[:60]
+    return s or "design"
+
+
+# --- JSON API -----------------------------------------------------------------------------
+
+@router.post("/api/designs", status_code=201)
+async def create_design(request: Request, store: StoreDep) -> JSONResponse:
+    """Store a new design; answer its id, revision 1 and its share URL."""
+    try:
+        document, author, comment, _ = _split_body(await read_json(request), wrapped=False)
+    except DesignError as exc:
+        return _error_response(exc)
+    rev = _save(store, None, document, author=author, comment=comment, base=None)
+    return JSONResponse(_revision_json(rev), status_code=201)
+
+
+@router.post("/api/designs/import", status_code=201)
+async def import_design(file: UploadFile, store: StoreDep) -> JSONResponse:
+    """Import a design file (multipart field ``file``); a bad file stores nothing."""
+    try:
+        document = await _read_upload(file)
+    except DesignError as exc:
+        return _error_response(exc)
+    rev = _save(store, None, document, author="", comment=f"imported from {file.filename or 'a file'}"[:MAX_COMMENT],
+                base=None)
+    return JSONResponse(_revision_json(rev), status_code=201)
+
+
+async def _read_upload(file: UploadFile) -> dict:
+    limit = get_settings().max_document_bytes
+    raw = await file.read(limit + 1)
+    if len(raw) > limit:
+        raise LimitError("", f"the file is over {limit:,} bytes, the most accepted", status_code=413)
+    if not raw.strip():
+        raise LimitError("", "the file is empty")
+    return _validated(parse_json(raw))
+
+
+@router.get("/api/designs/{design_id}")
+def get_latest(design_id: str, store: StoreDep) -> JSONResponse:
+    try:
+        _check_id(design_id)
+        return JSONResponse(_revision_json(store.latest(design_id)))
+    except NotFound as exc:
+        return _not_found(exc)
+
+
+@router.get("/api/designs/{design_id}/revisions")
+def list_revisions(design_id: str, store: StoreDep) -> JSONResponse:
+    try:
+        _check_id(design_id)
+        revs = store.revisions(design_id)
+    except NotFound as exc:
+        return _not_found(exc)
+    return JSONResponse({"id": design_id, "latest_revision": revs[-1].n,
+                         "revisions": [{"revision": r.n, "name": r.name, "author": r.author,
+                                        "comment": r.comment, "created_at": r.created_at,
+                                        "engine_version": r.engine_version,
+                                        "base_revision": r.base_revision,
+                                        "url": f"/d/{design_id}/r/{r.n}"} for r in revs]})
+
+
+@router.get("/api/designs/{design_id}/revisions/{n}")
+def get_revision(design_id: str, n: int, store: StoreDep) -> JSONResponse:
+    try:
+        _check_id(design_id)
+        return JSONResponse(_revision_json(store.revision(design_id, n)))
+    except NotFound as exc:
+        return _not_found(exc)
+
+
+@router.post("/api/designs/{design_id}/revisions", status_code=201)
+async def add_revision(design_id: str, request: Request, store: StoreDep) -> JSONResponse:
+    """Add a revision on top of ``base_revision``; 409 (document kept) when that is stale."""
+    try:
+        _check_id(design_id)
+        store.latest(design_id)
+    except NotFound as exc:
+        return _not_found(exc)
+    try:
+        document, author, comment, base = _split_body(await read_json(request), wrapped=True)
+    except DesignError as exc:
+        return _error_response(exc)
+    try:
+        rev = _save(store, design_id, document, author=author, comment=comment, base=base)
+    except StaleBase as exc:
+        return JSONResponse(_conflict_json(exc, document), status_code=409)
+    return JSONResponse(_revision_json(rev), status_code=201)
+
+
+@router.get("/api/designs/{design_id}/conflicts/{conflict_id}")
+def get_conflict(design_id: str, conflict_id: int, store: StoreDep) -> JSONResponse:
+    try:
+        _check_id(design_id)
+        return JSONResponse(store.conflict(design_id, conflict_id).model_dump())
+    except NotFound as exc:
+        return _not_found(exc)
+
+
+@router.get("/api/designs/{design_id}/revisions/{n}/export")
+def export_revision(design_id: str, n: int, store: StoreDep) -> Response:
+    """The revision's design document as a downloadable JSON file."""
+    try:
+        _check_id(design_id)
+        rev = store.revision(design_id, n)
+    except NotFound as exc:
+        return _not_found(exc)
+    filename = f"{_slug(rev.name)}-r{rev.n}.json"
+    return Response(json.dumps(rev.document, ensure_ascii=False, indent=2) + "\n",
+                    media_type="application/json",
+                    headers={"Content-Disposition": f'attachment; filename="{filename}"',
+                             "X-Content-Type-Options": "nosniff"})
+
+
+# --- pages --------------------------------------------------------------------------------
+
+def _page_404(request: Request, exc: NotFound) -> HTMLResponse:
+    return TEMPLATES.TemplateResponse(request, "revisions.html",
+                                      {"missing": str(exc), "design_id": None}, status_code=404)
+
+
+def _share_context(rev: Revision | None, *, base: int | None = None, **extra: Any) -> dict:
+    share = {"design_id": rev.design_id if rev else "", "base_revision": base or (rev.n if rev else ""),
+             "revision": rev.n if rev else None, "author": rev.author if rev else "",
+             "url": f"/d/{rev.design_id}" if rev else "", "status": "", "errors": [],
+             "changes": [], "conflict": None}
+    share.update(extra)
+    return share
+
+
+def _editor_or_view(request: Request, document: dict, share: dict, rev: Revision,
+                    store: Store) -> HTMLResponse:
+    """The editor with this document (the pages router draws it), or the read-only view."""
+    try:
+        from app.routers.pages import render_editor  # the editor page, when it is there
+    except ImportError:
+        return _revision_page(request, rev, store)
+    kwargs: dict[str, Any] = {"storage_key": f"/d/{rev.design_id}@{share['base_revision']}"}
+    if "share" in inspect.signature(render_editor).parameters:
+        kwargs["share"] = share
+    return render_editor(request, document, **kwargs)
+
+
+@router.get("/d/{design_id}", response_class=HTMLResponse)
+def open_latest(request: Request, design_id: str, store: StoreDep) -> HTMLResponse:
+    """The latest revision in the editor; ``?from=n`` loads revision n to edit on top of it."""
+    from_ = _int(request.query_params.get("from"))
+    try:
+        _check_id(design_id)
+        latest = store.latest(design_id)
+        shown = store.revision(design_id, from_) if from_ else latest
+    except NotFound as exc:
+        return _page_404(request, exc)
+    share = _share_context(latest, base=latest.n, editing_from=shown.n)
+    return _editor_or_view(request, shown.document, share, shown, store)
+
+
+def _int(text: str | None) -> int | None:
+    return int(text) if text and text.isdigit() else None
+
+
+def _revision_page(request: Request, rev: Revision, store: Store) -> HTMLResponse:
+    revs = store.revisions(rev.design_id)
+    design, result, errors = solve_or_errors(rev.document)
+    drawing = None
+    if design is not None:
+        from app.note import _drawing
+        drawing = _drawing(design, result)
+    return TEMPLATES.TemplateResponse(request, "revisions.html", {
+        "design_id": rev.design_id, "revisions": revs, "selected": rev, "latest_n": revs[-1].n,
+        "result": result, "errors": errors, "drawing": drawing,
+        "conflicts": store.conflicts(rev.design_id)})
+
+
+@router.get("/d/{design_id}/r/{n}", response_class=HTMLResponse)
+def open_revision(request: Request, design_id: str, n: int, store: StoreDep) -> HTMLResponse:
+    """A fixed revision, read-only; "Edit this revision" opens it in the editor."""
+    try:
+        _check_id(design_id)
+        rev = store.revision(design_id, n)
+    except NotFound as exc:
+        return _page_404(request, exc)
+    return _revision_page(request, rev, store)
+
+
+@router.get("/d/{design_id}/revisions", response_class=HTMLResponse)
+def history(request: Request, design_id: str, store: StoreDep) -> HTMLResponse:
+    try:
+        _check_id(design_id)
+        revs = store.revisions(design_id)
+    except NotFound as exc:
+        return _page_404(request, exc)
+    return TEMPLATES.TemplateResponse(request, "revisions.html", {
+        "design_id": design_id, "revisions": revs, "selected": None, "latest_n": revs[-1].n,
+        "conflicts": store.conflicts(design_id)})
+
+
+@router.get("/d/{design_id}/compare", response_class=HTMLResponse)
+def compare(request: Request, design_id: str, store: StoreDep, a: int | None = None,
+            b: int | None = None) -> HTMLResponse:
+    """Two revisions side by side: changed inputs, changed results (reactions, lives, checks)."""
+    try:
+        _check_id(design_id)
+        revs = store.revisions(design_id)
+        b = b or revs[-1].n
+        a = a or max(1, b - 1)
+        ra, rb = store.revision(design_id, a), store.revision(design_id, b)
+    except NotFound as exc:
+        return _page_404(request, exc)
+    _, res_a, err_a = solve_or_errors(ra.document)
+    _, res_b, err_b = solve_or_errors(rb.document)
+    return TEMPLATES.TemplateResponse(request, "compare.html", {
+        "design_id": design_id, "revisions": revs, "a": ra, "b": rb,
+        "changes": diff_documents(ra.document, rb.document),
+        "sections": compare_results(res_a, res_b), "errors_a": err_a, "errors_b": err_b})
+
+
+@router.get("/d/{design_id}/r/{n}/note", response_class=HTMLResponse)
+def note(request: Request, design_id: str, n: int, store: StoreDep) -> HTMLResponse:
+    """The design note of one revision, a page made for printing (A4)."""
+    try:
+        _check_id(design_id)
+        rev = store.revision(design_id, n)
+    except NotFound as exc:
+        return _page_404(request, exc)
+    meta = NoteMeta(design_id=rev.design_id, revision=rev.n, author=rev.author,
+                    created_at=rev.created_at, comment=rev.comment,
+                    engine_version=rev.engine_version)
+    return TEMPLATES.TemplateResponse(request, "note.html", note_context(rev.document, meta))
+
+
+@router.post("/d/save", response_class=HTMLResponse)
+async def save_from_editor(request: Request, store: StoreDep) -> HTMLResponse:
+    """The share panel's Save: the editor form in, the panel (saved/conflict/errors) out."""
+    from app.web import form_to_design
+
+    declared = request.headers.get("content-length", "")
+    limit = get_settings().max_document_bytes
+    if declared.isdigit() and int(declared) > 2 * limit:  # form text is wordier than JSON
+        return _panel(request, _share_context(None, errors=[Issue(
+            path="", message=f"the form is over {2 * limit:,} bytes, the most accepted")]), 413)
+    form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
+    design_id = form.get("share_design_id", "").strip() or None
+    base = _int(form.get("share_base_revision"))
+    share_in = {"author": form.get("share_author", ""), "comment": form.get("share_comment", "")}
+    document, issues = form_to_design(form)
+    try:
+        if issues:
+            raise DesignError(issues)
+        _validated(document)
+        author = _text(share_in["author"], "author", MAX_AUTHOR)
+        comment = _text(share_in["comment"], "comment", MAX_COMMENT)
+        if design_id is not None:
+            _check_id(design_id)
+            store.latest(design_id)
+        rev = _save(store, design_id, document, author=author, comment=comment, base=base)
+    except DesignError as exc:
+        share = _share_context(None, errors=list(exc.errors), design_id=design_id or "",
+                               base_revision=base or "", **share_in)
+        return _panel(request, share, 422)
+    except NotFound as exc:
+        share = _share_context(None, errors=[Issue(path="share_design_id", message=str(exc))])
+        return _panel(request, share, 404)
+    except StaleBase as exc:
+        share = _share_context(exc.latest, base=exc.latest.n, status="conflict",
+                               conflict=exc, changes=diff_documents(exc.latest.document, document),
+                               latest_n=exc.latest.n, **share_in)
+        return _panel(request, share, 409)
+    share = _share_context(rev, status="saved", comment="")
+    response = _panel(request, share, 200)
+    if request.headers.get("hx-request"):
+        response.headers["HX-Push-Url"] = f"/d/{rev.design_id}"
+    return response
+
+
+def _panel(request: Request, share: dict, status: int) -> HTMLResponse:
+    # htmx swaps only 2xx answers unless configured otherwise: answer 200 to it, and say the
+    # real outcome in the panel and in a header.
+    htmx = bool(request.headers.get("hx-request"))
+    resp = TEMPLATES.TemplateResponse(request, "partials/share_panel.html", {"share": share},
+                                      status_code=200 if htmx else status)
+    resp.headers["X-Shaftwright-Status"] = str(status)
+    return resp
+
+
+@router.post("/d/import", response_class=HTMLResponse)
+async def import_page(request: Request, file: UploadFile, store: StoreDep) -> Response:
+    """The import form: a valid file becomes a new design (redirect); a bad one says why."""
+    try:
+        document = await _read_upload(file)
+    except DesignError as exc:
+        share = _share_context(None, import_errors=list(exc.errors),
+                               import_name=file.filename or "")
+        return _panel(request, share, getattr(exc, "status_code", 422))
+    rev = _save(store, None, document, author="",
+                comment=f"imported from {file.filename or 'a file'}"[:MAX_COMMENT], base=None)
+    url = f"/d/{rev.design_id}"
+    if request.headers.get("hx-request"):
+        return Response(status_code=200, headers={"HX-Redirect": url})
+    return RedirectResponse(url, status_code=303)
