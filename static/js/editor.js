@@ -1,0 +1,116 @@
+/* Shaftwright editor: diagrams, field messages, working copy in local storage, drawing links. */
+(function () {
+  "use strict";
+  var desk = document.querySelector(".desk");
+  var KEY = desk ? desk.getAttribute("data-storage-key") : "shaftwright:working:/";
+
+  function form() { return document.getElementById("design-form"); }
+  function slug(p) { return p.replace(/[^A-Za-z0-9_]+/g, "-").replace(/^-+|-+$/g, ""); }
+
+  function drawPlot() {
+    var el = document.getElementById("plot-data"), target = document.getElementById("plot");
+    if (!el || !target || !window.Plotly) return;
+    var fig; try { fig = JSON.parse(el.textContent); } catch (e) { return; }
+    if (!fig) return;
+    window.Plotly.react(target, fig.data, fig.layout, {displaylogo: false, responsive: true,
+      modeBarButtonsToRemove: ["lasso2d", "select2d"]});
+  }
+
+  function applyIssues() {
+    var el = document.getElementById("issue-data"); if (!el) return;
+    var slots = {}; try { slots = JSON.parse(el.textContent) || {}; } catch (e) {}
+    document.querySelectorAll("#design-form .msg").forEach(function (m) {
+      var msgs = slots[m.id];
+      var text = msgs ? msgs.join(" ") : "";
+      if (m.textContent !== text) m.textContent = text;
+      var fld = m.closest(".fld");
+      if (fld) {
+        fld.classList.toggle("bad", !!msgs);
+        var inp = fld.querySelector("input,select");
+        if (inp) { if (msgs) inp.setAttribute("aria-invalid", "true"); else inp.removeAttribute("aria-invalid"); }
+      }
+    });
+  }
+
+  function syncCases() {
+    var el = document.getElementById("plot-data"), sel = document.getElementById("view-case");
+    if (!el || !sel) return;
+    var fig; try { fig = JSON.parse(el.textContent); } catch (e) { return; }
+    if (!fig || !fig.layout || !fig.layout.meta) return;
+    var names = fig.layout.meta.cases || [];
+    var have = Array.prototype.map.call(sel.options, function (o) { return o.value; });
+    if (names.length && names.join("\u0000") !== have.join("\u0000")) {
+      sel.innerHTML = "";
+      names.forEach(function (n) { var o = document.createElement("option"); o.value = n; o.textContent = n; sel.appendChild(o); });
+    }
+    if (fig.layout.meta.load_case) sel.value = fig.layout.meta.load_case;
+  }
+
+  function snapshot() {
+    var f = form(); if (!f) return null;
+    var out = {};
+    new FormData(f).forEach(function (v, k) { if (typeof v === "string") out[k] = v; });
+    var vc = document.getElementById("view-case"); if (vc && vc.value) out.view_case = vc.value;
+    return out;
+  }
+  function save() {
+    try { var s = snapshot(); if (s) localStorage.setItem(KEY, JSON.stringify({form: s, t: Date.now()})); } catch (e) {}
+  }
+  var initial = null;
+
+  function restore() {
+    var raw = null; try { raw = localStorage.getItem(KEY); } catch (e) {}
+    if (!raw) return;
+    var stored; try { stored = JSON.parse(raw); } catch (e) { return; }
+    if (!stored || !stored.form) return;
+    if (JSON.stringify(stored.form) === JSON.stringify(initial)) return;
+    var vals = Object.assign({}, stored.form, {op: "restore"});
+    window.htmx.ajax("POST", "/editor/op", {target: "#editor", swap: "outerHTML", values: vals}).then(function () {
+      var r = document.getElementById("restored"); if (r) r.hidden = false;
+    });
+  }
+
+  // a click (or Enter) on a part of the drawing takes the user to its row
+  document.addEventListener("click", function (ev) {
+    var a = ev.target.closest && ev.target.closest("a.sd-part");
+    if (!a) return;
+    ev.preventDefault();
+    var row = document.getElementById(a.getAttribute("data-row"));
+    if (!row) return;
+    row.scrollIntoView({block: "center", behavior: "instant"});
+    document.querySelectorAll(".row.flash").forEach(function (r) { r.classList.remove("flash"); });
+    row.classList.add("flash");
+    var first = row.querySelector("input.num, input, select");
+    if (first) first.focus({preventScroll: true});
+  });
+
+  // an issue link in the status list focuses its field
+  document.addEventListener("click", function (ev) {
+    var a = ev.target.closest && ev.target.closest("#status a[data-path]");
+    if (!a) return;
+    var el = document.getElementById("f-" + slug(a.getAttribute("data-path")));
+    if (el) { ev.preventDefault(); el.focus(); }
+  });
+
+  document.addEventListener("input", function (ev) { if (ev.target.closest && ev.target.closest("#design-form")) save(); });
+  document.body.addEventListener("htmx:afterSettle", function () { applyIssues(); syncCases(); drawPlot(); save(); });
+
+  var so = document.getElementById("start-over");
+  if (so) so.addEventListener("click", function () {
+    try { localStorage.removeItem(KEY); } catch (e) {}
+    window.location.reload();
+  });
+
+  window.shaftwright = {
+    clearWorkingCopy: function () { try { localStorage.removeItem(KEY); } catch (e) {} },
+    storageKey: KEY
+  };
+
+  function start() {
+    initial = snapshot();
+    applyIssues(); drawPlot();
+    restore();
+    document.documentElement.setAttribute("data-ready", "1");
+  }
+  if (document.readyState === "loading") document.addEventListener("DOMContentLoaded", start); else start();
+})();
