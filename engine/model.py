@@ -143,6 +143,7 @@ class _Element(_Doc):
     keyway: Literal["end_milled", "sled_runner"] | None = None
     press_fit: bool = False
     width_mm: Pos | None = None  # hub or face width, for the drawing and the seat
+    inertia_kg_m2: NonNeg | None = None  # polar mass moment of inertia about the shaft axis (torsional frequency)
 
 
 class _Driving(_Element):
@@ -220,6 +221,7 @@ class LoadCase(_Doc):
     torque_factor: float = 1.0
     force_factor: float = 1.0
     torques_Nm: dict[str, float] = {}
+    torque_alternating_pct: Annotated[float, Field(ge=0, le=1000)] = 0.0  # alternating torque amplitude, % of the steady torque
 
 
 class Lubricant(_Doc):
@@ -243,6 +245,8 @@ class Requirements(_Doc):
     critical_speed_margin_pct: Annotated[float, Field(ge=0, lt=100)] = 20.0
     gear_deflection_max_mm: Pos = 0.13
     gear_slope_max_rad: Pos = 0.0005
+    shaft_temperature_C: Annotated[float, Field(ge=-60, le=540)] = 20.0  # Marin temperature factor
+    notch_sensitivity: Literal["neuber", "kuhn_hardrath"] = "neuber"
 
 
 class Gravity(_Doc):
