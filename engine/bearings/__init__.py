@@ -1,0 +1,342 @@
+"""Bearing layer: axial resolution, equivalent loads, rating life, static safety, candidates.
+
+Public entry points
+-------------------
+rate_bearings(design, *, Fr_N, Fa_ext_N, catalogue=None) -> BearingOutcome
+    Called by ``engine.solve`` with the radial reactions of every support in every case and
+    the net external axial force; returns the axial split, one ``BearingResult`` per support
+    that has a bearing type, the checks and warnings.
+resolve_axial(design, Fr_N, Fa_ext_N, *, Y_induced=None) -> AxialSplit
+load_catalogue(path) -> Catalogue; parse_catalogue(text) -> Catalogue; bundled_catalogue()
+
+Method (details and sources in the modules): for each support, every catalogue row of its
+type (all bores, so the smallest passing bore of each series can be reported) is screened
+over all load cases at once. Rows whose bore fits the seat are the candidates. Induced axial
+forces of a cross-located angular contact / tapered pair depend on the row: a first pass uses
+the median factor of the rows that fit each seat; the split is then recomputed with the two
+top-ranked rows and those supports screened again (one refinement pass). The reported split
+is that of the top-ranked rows.
+
+Sign and units: N, mm, rpm, h. Nothing here writes files; the bundled table is read once.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from engine.bearings.axial import (DEFAULT_CONTACT_ANGLE_DEG, DEFAULT_TAPERED_Y, SOURCE_INDUCED,
+                                   AxialSplit, induced_ratio, resolve_axial)
+from engine.bearings.candidates import LIFE_CAP_H, Screen, rank, screen_rows, smallest_by_series
+from engine.bearings.catalogue import (BUNDLED_PATH, Catalogue, bundled_catalogue, load_catalogue,
+                                       parse_catalogue)
+from engine.bearings.equivalent import INDUCED_TYPES, RADIAL_ONLY, SOURCE_P, SOURCE_P0
+from engine.bearings.life import (SOURCE_A1, SOURCE_AISO, SOURCE_L10, SOURCE_MINER,
+                                  SOURCE_WEIBULL, WEIBULL_B, WEIBULL_THETA, WEIBULL_X0, a1_iso,
+                                  weibull_factor)
+from engine.bearings.lubrication import SOURCE_NU1, SOURCE_VISCOSITY, viscosity_at
+from engine.model import Design, EngineError
+from engine.result import BearingResult, Candidate, Check, SeriesMinimum
+
+__all__ = ["BearingOutcome", "AxialSplit", "Catalogue", "rate_bearings", "resolve_axial",
+           "load_catalogue", "parse_catalogue", "bundled_catalogue", "BUNDLED_PATH"]
+
+_TYPE_WORDS = {"deep_groove_ball": "deep groove ball", "angular_contact_ball": "angular contact ball",
+               "self_aligning_ball": "self-aligning ball", "cylindrical_roller": "cylindrical roller",
+               "tapered_roller": "tapered roller", "spherical_roller": "spherical roller",
+               "needle_roller": "needle roller"}
+ILLUSTRATIVE = ("ratings of the bundled table are illustrative (ISO rating formulas from assumed "
+                "internal geometry, no supplier's data): use your supplier's ratings for the final choice")
+
+
+@dataclass(frozen=True)
+class BearingOutcome:
+    """What :func:`rate_bearings` returns."""
+
+    split: AxialSplit
+    bearings: list[BearingResult] = field(default_factory=list)
+    checks: list[Check] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)
+
+
+def _fmt(v: float) -> str:
+    if not np.isfinite(v):
+        return "unbounded"
+    return f"{v:,.0f}".replace(",", " ") if abs(v) >= 100 else f"{v:.3g}"
+
+
+class _Support:
+    """Per-support working data for one call."""
+
+    def __init__(self, design: Design, i: int, cat: Catalogue):
+        s = design.supports[i]
+        self.i, self.s, self.kind = i, s, s.bearing_type
+        self.bore = float(s.bore_mm if s.bore_mm is not None else design.shaft.diameter_at(s.x_mm))
+        rows = cat.rows_of(self.kind)
+        if s.dimension_series:
+            rows = rows[np.isin(cat.series[rows], list(s.dimension_series))]
+        if self.kind == "angular_contact_ball" and s.contact_angle_deg is not None:
+            rows = rows[np.abs(cat.contact_angle_deg[rows] - s.contact_angle_deg) < 0.5]
+        self.rows = rows
+        self.fit = np.abs(cat.d_mm[rows] - self.bore) < 0.01  # positions into rows
+        self.paired = s.axial == "both" and self.kind in INDUCED_TYPES
+
+    def row_ratio(self, cat: Catalogue, rows: np.ndarray) -> np.ndarray:
+        """S/Fr of catalogue rows for this support's type."""
+        if self.kind == "tapered_roller":
+            return 0.5 / cat.Y2[rows]
+        if self.kind == "angular_contact_ball":
+            return np.asarray(induced_ratio(self.kind, contact_angle_deg=cat.contact_angle_deg[rows]), float)
+        return np.zeros(rows.size)
+
+    def default_ratio(self, cat: Catalogue) -> float:
+        if self.kind not in INDUCED_TYPES:
+            return 0.0
+        pick = self.rows[self.fit] if self.fit.any() else self.rows
+        if pick.size:
+            return float(np.median(self.row_ratio(cat, pick)))
+        return float(induced_ratio(self.kind, Y=DEFAULT_TAPERED_Y,
+                                   contact_angle_deg=self.s.contact_angle_deg or DEFAULT_CONTACT_ANGLE_DEG))
+
+
+def _row_Fa(sp: _Support, split: AxialSplit, cat: Catalogue, Fr: np.ndarray, Ka: np.ndarray) -> np.ndarray:
+    """Axial load per (row, case): row-refined for a member of an induced-force pair."""
+    i = sp.i
+    if split.pair is None or sp.kind not in INDUCED_TYPES or i not in split.pair or None in split.pair:
+        return split.Fa_N[:, i][None, :]
+    P, M = split.pair
+    S_row = sp.row_ratio(cat, sp.rows)[:, None] * Fr[None, :, i]
+    if i == P:
+        return np.maximum(S_row, split.induced_N[None, :, M] + Ka[None, :])
+    Fa_P = np.maximum(split.induced_N[None, :, P], S_row + Ka[None, :])
+    return Fa_P - Ka[None, :]
+
+
+def rate_bearings(design: Design, *, Fr_N: np.ndarray, Fa_ext_N: np.ndarray,
+                  catalogue: Catalogue | None = None) -> BearingOutcome:
+    """Rate the bearings of a design: axial split, lives, static safety, ranked candidates.
+
+    Parameters
+    ----------
+    design : engine.model.Design
+    Fr_N : ndarray (n_cases, n_supports)
+        Radial reaction magnitude of every support in every load case, [N]
+    Fa_ext_N : ndarray (n_cases,)
+        Net external axial force on the shaft along +x, [N]
+    catalogue : Catalogue, optional
+        Bearing table; default the bundled illustrative table
+
+    Returns
+    -------
+    BearingOutcome
+        ``split`` (AxialSplit), ``bearings`` (one BearingResult per support with a bearing
+        type, in design order), ``checks`` (codes ``bearing.seat``, ``bearing.life``,
+        ``bearing.static``, ``bearing.speed``, ``bearing.axial_on_radial``,
+        ``bearing.lubrication``, ``bearing.candidates``, ``bearing.arrangement``; where = support
+        id), ``warnings``.
+
+    Raises
+    ------
+    engine.model.EngineError
+        From the axial resolution, or a lubricant outside the viscosity relation.
+    """
+    cat = bundled_catalogue() if catalogue is None else catalogue
+    Fr = np.atleast_2d(np.asarray(Fr_N, float))
+    Ka = np.asarray(Fa_ext_N, float).reshape(-1)
+    req = design.requirements
+    cases = design.load_cases
+    n = np.array([c.speed_rpm for c in cases], float)
+    t = np.array([c.time_fraction for c in cases], float)
+    af = float(req.application_factor)
+
+    sups = {i: _Support(design, i, cat) for i, s in enumerate(design.supports) if s.bearing_type is not None}
+    ratio0 = np.zeros(len(design.supports))
+    for i, sp in sups.items():
+        ratio0[i] = sp.default_ratio(cat)
+    split = resolve_axial(design, Fr, Ka, induced_ratio_=ratio0)
+
+    # reliability factor
+    if req.reliability_method == "weibull":
+        x0 = getattr(req, "weibull_x0", WEIBULL_X0)
+        th = getattr(req, "weibull_theta", WEIBULL_THETA)
+        b = getattr(req, "weibull_b", WEIBULL_B)
+        a_R = float(weibull_factor(req.reliability_pct, x0=x0, theta=th, b=b))
+        a_other = float(a1_iso(req.reliability_pct))
+        method = (f"textbook Weibull factor {a_R:.3g} at R = {req.reliability_pct:g} % "
+                  f"(x0 {x0:g}, θ {th:g}, b {b:g})")
+        other = f"ISO 281 a1 = {a_other:.3g}"
+        src_R = SOURCE_WEIBULL
+    else:
+        a_R = float(a1_iso(req.reliability_pct))
+        a_other = float(weibull_factor(req.reliability_pct))
+        method = f"ISO 281:2007 a1 = {a_R:.3g} at R = {req.reliability_pct:g} %"
+        other = f"textbook Weibull factor {a_other:.3g}"
+        src_R = SOURCE_A1
+
+    warnings: list[str] = list(split.warnings) + list(cat.warnings)
+    nu = None
+    ec = req.contamination_ec
+    if req.lubricant is not None and ec is not None:
+        lub = req.lubricant
+        try:
+            nu = float(viscosity_at(lub.operating_temp_C, iso_vg=lub.iso_vg,
+                                    viscosity_index=lub.viscosity_index))
+        except ValueError as exc:
+            raise EngineError.at("requirements.lubricant.iso_vg", str(exc)) from None
+        method += (f"; aISO from κ (ν = {nu:.3g} mm²/s at {lub.operating_temp_C:g} °C, VG {lub.iso_vg:g}, "
+                   f"VI {lub.viscosity_index:g}) and ec = {ec:g}")
+    elif (req.lubricant is None) != (ec is None):
+        missing = "contamination_ec" if ec is None else "lubricant"
+        warnings.append(f"requirements.{missing} is not given: the modified life uses aISO = 1 "
+                        "(give both lubricant and contamination_ec for ISO 281's aISO)")
+    src_life = "; ".join([SOURCE_L10, src_R] + ([SOURCE_AISO, SOURCE_NU1, SOURCE_VISCOSITY] if nu is not None else [])
+                         + [SOURCE_MINER])
+
+    def do_screen(sp: _Support, sp_split: AxialSplit) -> Screen:
+        return screen_rows(cat, sp.rows, bearing_type=sp.kind, Fr_N=Fr[:, sp.i],
+                           Fa_N=_row_Fa(sp, sp_split, cat, Fr, Ka), speed_rpm=n, time_fraction=t,
+                           life_h=req.life_h, a_R=a_R, s0_min=req.s0_min, application_factor=af,
+                           paired=sp.paired, nu_mm2_s=nu, ec=ec)
+
+    screens = {i: do_screen(sp, split) for i, sp in sups.items()}
+    orders = {i: rank(cat, screens[i], np.flatnonzero(sp.fit)) for i, sp in sups.items()}
+
+    # one refinement pass for an induced-force pair: split with the two top-ranked rows
+    if split.pair is not None and None not in split.pair:
+        members = [i for i in split.pair if i in sups and sups[i].kind in INDUCED_TYPES]
+        if members and all(orders[i].size for i in members):
+            ratio1 = ratio0.copy()
+            for i in members:
+                top = sups[i].rows[orders[i][0]]
+                ratio1[i] = float(sups[i].row_ratio(cat, np.array([top]))[0])
+            split = resolve_axial(design, Fr, Ka, induced_ratio_=ratio1)
+            for i in members:
+                screens[i] = do_screen(sups[i], split)
+                orders[i] = rank(cat, screens[i], np.flatnonzero(sups[i].fit))
+
+    checks: list[Check] = []
+    results: list[BearingResult] = []
+    for i, sp in sups.items():
+        sc, order, s = screens[i], orders[i], sp.s
+        word = _TYPE_WORDS[sp.kind]
+        notes = [f"life method: {method}; for comparison {other}",
+                 f"application factor {af:g} applied to Fr and Fa for P and P0"]
+        if catalogue is None:
+            notes.append(ILLUSTRATIVE)
+        if sp.paired:
+            notes.append("matched pair at one position: C × 2^0.7 (ball) or 2^(7/9) (roller), C0 and Cu × 2, "
+                         "pair load factors (ISO 281 cl. 6.1, 6.2)")
+        if s.bearing_type in INDUCED_TYPES and split.pair and i in split.pair:
+            notes.append(SOURCE_INDUCED)
+        role = split.roles[i]
+        arrangement = f"{role}; {split.arrangement}"
+        cands: list[Candidate] = []
+        for pos in order:
+            r = sc.idx[pos]
+            reasons = []
+            if not sc.life_ok[pos]:
+                reasons.append(f"life {_fmt(sc.Lnm_h[pos])} h < {_fmt(req.life_h)} h required")
+            if not sc.static_ok[pos]:
+                reasons.append(f"static safety s0 {sc.s0[pos]:.3g} < {req.s0_min:g}")
+            if not sc.speed_ok[pos]:
+                reasons.append(f"speed {_fmt(sc.n_max_rpm)} rpm > limiting {_fmt(sc.limiting_speed_rpm[pos])} rpm")
+            nl = cat.limiting_speed_rpm[r]
+            cands.append(Candidate(
+                designation=str(cat.designation[r]) + (" (matched pair)" if sp.paired else ""),
+                series=str(cat.series[r]), d_mm=float(cat.d_mm[r]), D_mm=float(cat.D_mm[r]),
+                B_mm=float(cat.B_mm[r]), C_N=float(sc.C_N[pos]), C0_N=float(sc.C0_N[pos]),
+                P_N=float(sc.Pm_N[pos]), L10_h=float(sc.L10_h[pos]), Lnm_h=float(sc.Lnm_h[pos]),
+                s0=float(min(sc.s0[pos], LIFE_CAP_H)),
+                limiting_speed_rpm=None if np.isnan(nl) else float(nl), ok=bool(sc.ok[pos]),
+                reasons=reasons))
+        series_list = list(s.dimension_series) if s.dimension_series else sorted(set(cat.series[sp.rows]))
+        mins = []
+        for ser, pos in smallest_by_series(cat, sc, series_list):
+            mins.append(SeriesMinimum(series=ser, d_mm=None if pos is None else float(cat.d_mm[sc.idx[pos]]),
+                                      designation=None if pos is None else str(cat.designation[sc.idx[pos]])))
+        min_txt = ", ".join(f"series {m.series}: " + (f"d = {m.d_mm:g} mm" if m.d_mm is not None else "none")
+                            for m in mins)
+
+        top = order[0] if order.size else None
+        Fa_rep = (sc.Fa_N[top] if top is not None else split.Fa_N[:, i])
+        Fa_rep = np.broadcast_to(Fa_rep, (len(cases),))
+        where = s.id
+        if not sp.rows.size:
+            checks.append(Check(code="bearing.seat", status="warn", where=where, source=cat.name,
+                                message=f"{s.id}: the bearing table has no {word} rows"
+                                        + (f" of series {', '.join(s.dimension_series)}" if s.dimension_series else "")
+                                        + "; the bearing is not rated (load a table that has them)"))
+        elif top is None:
+            bores = np.unique(cat.d_mm[sp.rows])
+            near = bores[np.argsort(np.abs(bores - sp.bore))[:3]]
+            checks.append(Check(code="bearing.seat", status="fail", where=where, value=sp.bore,
+                                unit="mm", source=cat.name,
+                                message=f"{s.id}: no {word} bearing in the table has bore {sp.bore:g} mm "
+                                        f"(nearest: {', '.join(f'{b:g}' for b in sorted(near))} mm); change the "
+                                        f"seat diameter or set supports[{i}].bore_mm"
+                                        + (f"; smallest that passes: {min_txt}" if mins else "")))
+        if top is not None:
+            c = cands[0]
+            life_status = "ok" if sc.life_ok[top] else "fail"
+            checks.append(Check(code="bearing.life", status=life_status, where=where, value=c.Lnm_h,
+                                limit=req.life_h, unit="h", source=src_life,
+                                message=f"{s.id} {c.designation}: modified life {_fmt(c.Lnm_h)} h "
+                                        f"(L10 {_fmt(c.L10_h)} h, {method.split(';')[0]}) against "
+                                        f"{_fmt(req.life_h)} h required"))
+            wc = int(sc.worst_static_case[top])
+            checks.append(Check(code="bearing.static", status="ok" if sc.static_ok[top] else "fail",
+                                where=where, value=c.s0, limit=req.s0_min, unit="",
+                                load_case=cases[wc].name, source=SOURCE_P0 + "; s0 = C0/P0",
+                                message=f"{s.id} {c.designation}: static safety s0 = {c.s0:.3g} "
+                                        f"(P0 = {_fmt(sc.P0_N[top, wc])} N in '{cases[wc].name}')"))
+            nl = sc.limiting_speed_rpm[top]
+            if np.isnan(nl):
+                checks.append(Check(code="bearing.speed", status="warn", where=where, value=sc.n_max_rpm,
+                                    unit="rpm", source=cat.name,
+                                    message=f"{s.id} {c.designation}: no limiting speed in the table; speed not checked"))
+            else:
+                checks.append(Check(code="bearing.speed", status="ok" if sc.speed_ok[top] else "fail",
+                                    where=where, value=sc.n_max_rpm, limit=float(nl), unit="rpm",
+                                    source=f"{cat.name}, limiting speed of the row"
+                                           + (" (n·dm rule for grease, common practice)" if catalogue is None else ""),
+                                    message=f"{s.id} {c.designation}: highest speed {_fmt(sc.n_max_rpm)} rpm "
+                                            f"against limiting {_fmt(nl)} rpm"))
+            if nu is not None:
+                km = float(sc.kappa_min[top])
+                st = "ok" if km >= 1.0 else "warn"
+                msg = f"{s.id}: viscosity ratio κ = {km:.3g} (lowest over the cases)"
+                if km < 0.1:
+                    msg += "; below 0.1 ISO 281's aISO does not apply (evaluated at κ = 0.1): use a thicker oil"
+                elif km < 1.0:
+                    msg += "; below 1 the film is thin and aISO lowers the life"
+                checks.append(Check(code="bearing.lubrication", status=st, where=where, value=km, limit=1.0,
+                                    source=SOURCE_NU1 + "; " + SOURCE_VISCOSITY, message=msg))
+            if not sc.ok[order].any():
+                checks.append(Check(code="bearing.candidates", status="fail", where=where,
+                                    value=float(sp.bore), unit="mm", source=cat.name,
+                                    message=f"{s.id}: no {word} bearing with bore {sp.bore:g} mm meets every "
+                                            f"requirement; smallest bore that does: {min_txt}"))
+        if sp.kind in RADIAL_ONLY:
+            Fa_max = float(np.max(split.Fa_N[:, i])) if split.Fa_N.size else 0.0
+            if Fa_max > 1e-6:
+                checks.append(Check(code="bearing.axial_on_radial", status="warn", where=where,
+                                    value=Fa_max, limit=0.0, unit="N", source=SOURCE_P,
+                                    message=f"{s.id}: a {word} bearing is given {_fmt(Fa_max)} N axial load; "
+                                            "its rating life takes P = Fr only (ISO 281 rates it radial "
+                                            "only): check the ribs' axial capacity with the supplier, or let "
+                                            "another support locate"))
+        if s.bearing_type in INDUCED_TYPES and s.axial == "none":
+            checks.append(Check(code="bearing.arrangement", status="warn", where=where, source=SOURCE_INDUCED,
+                                message=f"{s.id}: a single {word} bearing cannot float: its induced axial "
+                                        "force needs an opposed bearing ('+x'/'-x' pair) or a matched pair ('both')"))
+        results.append(BearingResult(
+            id=s.id, bearing_type=sp.kind, bore_mm=sp.bore,
+            equivalent_load_N=float(sc.Pm_N[top]) if top is not None else 0.0,
+            required_C_N=float(sc.required_C_N[top]) if top is not None else 0.0,
+            life_method=method, arrangement=arrangement,
+            Fr_N=[float(v) for v in Fr[:, i]], Fa_N=[float(v) for v in Fa_rep],
+            candidates=cands, smallest_by_series=mins, notes=notes))
+    return BearingOutcome(split=split, bearings=results, checks=checks, warnings=warnings)
+
+
