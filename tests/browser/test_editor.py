@@ -1,0 +1,176 @@
+"""The designer's page in a real browser (Debian Chromium through Playwright).
+
+Each test saves a screenshot to tests/artifacts/ for a designer to look at.
+"""
+from __future__ import annotations
+
+import json
+
+import pytest
+
+pytestmark = pytest.mark.browser
+
+
+def _open(page, url):
+    page.goto(url + "/")
+    page.wait_for_selector("html[data-ready='1']")
+    page.wait_for_selector("#plot .main-svg")
+    return page
+
+
+def _element_index(page, eid: str) -> int:
+    i = 0
+    while page.locator(f"[name='elements[{i}].id']").count():
+        if page.locator(f"[name='elements[{i}].id']").input_value() == eid:
+            return i
+        i += 1
+    raise AssertionError(f"no element {eid}")
+
+
+def _first_gear(page) -> int:
+    i = 0
+    while page.locator(f"[name='elements[{i}].kind']").count():
+        if page.locator(f"[name='elements[{i}].kind']").input_value() == "gear":
+            return i
+        i += 1
+    raise AssertionError("the demo has no gear")
+
+
+def _reactions(page) -> str:
+    return page.locator("table.reactions").first.inner_text()
+
+
+def _plot_y(page, name="resultant", axis="y2"):
+    return page.evaluate(
+        """([name, axis]) => { const g = document.getElementById('plot');
+             const t = g.data.find(t => t.name === name && t.yaxis === axis); return t ? Array.from(t.y) : null; }""",
+        [name, axis])
+
+
+def _wait_fresh(page):
+    page.wait_for_selector("#status[data-state='fresh']")
+
+
+def test_page_loads_complete_and_offline(page, live_server, artifacts):
+    _open(page, live_server)
+    assert page.locator("#drawing svg").count() == 1
+    assert page.locator("table.reactions").count() >= 1
+    assert page.locator(".caution").is_visible()
+    assert "qualified engineer" in page.locator(".caution").inner_text()
+    titles = page.locator("#plot .infolayer").first.text_content()
+    for word in ("shear force", "bending moment", "torque", "deflection", "slope"):
+        assert word in titles
+    assert page.locator("#view-case option").count() >= 1
+    page.screenshot(path=str(artifacts / "01-page.png"), full_page=True)
+    assert page.outside_requests == [], "the page loads no file from outside the app"
+    assert page.console_errors == []
+
+
+def test_move_gear_changes_reactions_and_diagram(page, live_server, artifacts):
+    _open(page, live_server)
+    i = _first_gear(page)
+    before_r = _reactions(page)
+    before_m = _plot_y(page)
+    x = page.locator(f"[name='elements[{i}].x_mm']")
+    old = float(x.input_value())
+    x.fill(f"{old - 20:g}")
+    page.wait_for_function("(t) => document.querySelector('table.reactions').innerText !== t", arg=before_r)
+    _wait_fresh(page)
+    page.wait_for_function(
+        """(b) => { const g = document.getElementById('plot'); const t = g.data.find(t => t.name === 'resultant' && t.yaxis === 'y2');
+                   return JSON.stringify(Array.from(t.y)) !== b; }""", arg=json.dumps(before_m))
+    assert _reactions(page) != before_r
+    assert _plot_y(page) != before_m
+    # the drawing moved the gear too
+    assert x.input_value() == f"{old - 20:g}"
+    page.screenshot(path=str(artifacts / "02-gear-moved.png"), full_page=True)
+    assert page.console_errors == []
+
+
+def test_invalid_value_message_beside_field_page_intact(page, live_server, artifacts):
+    _open(page, live_server)
+    before = _reactions(page)
+    field = page.locator("[name='supports[1].x_mm']")
+    field.fill("12o")
+    msg = page.locator("#m-supports-1-x_mm")
+    msg.wait_for(state="visible")
+    assert "number" in msg.inner_text()
+    assert field.input_value() == "12o", "what the user typed stays"
+    assert field.get_attribute("aria-invalid") == "true"
+    # the rest of the page is intact: last good results shown, marked out of date
+    assert page.locator("#status[data-state='stale']").count() == 1
+    assert "Out of date" in page.locator("#status").inner_text()
+    assert _reactions(page) == before
+    assert page.locator("#drawing svg").count() == 1
+    assert page.locator("#plot .main-svg").count() >= 1
+    assert page.locator("[name='supports[0].x_mm']").input_value() != ""
+    page.screenshot(path=str(artifacts / "03-invalid-value.png"), full_page=True)
+    # fixing it clears the message and brings fresh results
+    field.fill("250")
+    _wait_fresh(page)
+    assert msg.inner_text() == ""
+
+
+def test_add_third_support_gives_indeterminate_solution(page, live_server, artifacts):
+    _open(page, live_server)
+    page.locator("#op-add-supports").click()
+    page.wait_for_selector("#row-supports-2")
+    x = page.locator("[name='supports[2].x_mm']")
+    assert page.evaluate("document.activeElement && document.activeElement.name") == "supports[2].x_mm"
+    gear_x = float(page.locator(f"[name='elements[{_first_gear(page)}].x_mm']").input_value())
+    x.fill(f"{gear_x + 30:g}")
+    _wait_fresh(page)
+    page.wait_for_selector("#indeterminate")
+    assert "3 supports" in page.locator("#indeterminate").inner_text()
+    rows = page.locator("table.reactions").first.locator("tbody tr")
+    assert rows.count() == 3
+    fr = [float(t.replace("\u2212", "-")) for t in rows.locator("td.fr").all_inner_texts()]
+    assert all(v > 0 for v in fr), fr  # every support carries load
+    page.screenshot(path=str(artifacts / "04-three-supports.png"), full_page=True)
+
+
+def test_switch_units(page, live_server, artifacts):
+    _open(page, live_server)
+    si_x = float(page.locator("[name='supports[0].x_mm']").input_value())
+    page.select_option("#units-switch", "us")
+    page.wait_for_selector("input[name='units'][value='us']", state="attached")
+    _wait_fresh(page)
+    us_x = float(page.locator("[name='supports[0].x_mm']").input_value())
+    assert abs(us_x * 25.4 - si_x) < 1e-3
+    assert "[in]" in page.locator("label[for='f-supports-0-x_mm']").inner_text()
+    assert "[lbf]" in page.locator("table.reactions").first.inner_text()
+    titles = page.locator("#plot .infolayer").first.text_content()
+    assert "lbf·ft" in titles
+    page.screenshot(path=str(artifacts / "05-us-units.png"), full_page=True)
+
+
+def test_drawing_part_takes_you_to_its_row_by_keyboard(page, live_server):
+    _open(page, live_server)
+    i = _first_gear(page)
+    page.focus(f"a.sd-part[data-row='row-elements-{i}']")
+    page.keyboard.press("Enter")
+    inside = page.evaluate(f"document.activeElement.closest('#row-elements-{i}') !== null")
+    assert inside
+
+
+def test_tab_order_follows_layout(page, live_server):
+    _open(page, live_server)
+    order = []
+    page.focus("#units-switch")
+    for _ in range(60):
+        page.keyboard.press("Tab")
+        order.append(page.evaluate("""() => { const a = document.activeElement;
+            return a.closest('#drawing') ? 'drawing' : a.closest('#design-form') ? 'editor' : a.closest('.results-col') ? 'results' : 'other'; }"""))
+    firsts = [order.index(k) for k in ("drawing", "editor")]
+    assert firsts == sorted(firsts)
+    assert "results" not in order[: order.index("editor")]
+
+
+def test_reload_keeps_working_copy(page, live_server):
+    _open(page, live_server)
+    page.locator("[name='name']").fill("my own countershaft")
+    _wait_fresh(page)
+    page.reload()
+    page.wait_for_selector("html[data-ready='1']")
+    page.wait_for_function("document.querySelector(\"[name='name']\").value === 'my own countershaft'")
+    page.locator("#restored").wait_for(state="visible")
