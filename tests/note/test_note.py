@@ -1,0 +1,126 @@
+"""The design note: its content, the `shaftwright note` command, and revision comparison."""
+from __future__ import annotations
+
+import copy
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+import engine
+from app import units
+from app.note import (CAUTIONS, compare_results, diff_documents, flatten, note_context,
+                      print_pdf, render_note_html)
+
+ROOT = Path(__file__).resolve().parents[2]
+EXAMPLE = ROOT / "tests" / "store" / "example_design.json"
+
+
+@pytest.fixture
+def design() -> dict:
+    return json.loads(EXAMPLE.read_text(encoding="utf-8"))
+
+
+def pdf_text(path: Path) -> str:
+    """Text of a PDF through poppler's pdftotext (installed with the test tools)."""
+    return subprocess.run(["pdftotext", "-layout", str(path), "-"], capture_output=True,
+                          text=True, check=True).stdout
+
+
+def expected_numbers(design: dict) -> dict[str, list[str]]:
+    """Reactions and chosen-bearing lives as the note prints them (units.fmt, SI)."""
+    result = engine.solve(design)
+    reactions = [units.fmt(s.Fr_N, "force") for c in result.load_cases for s in c.supports]
+    lives = [units.fmt(b.candidates[0].L10_h, "time") for b in result.bearings if b.candidates]
+    return {"reactions": reactions, "lives": lives, "bearings": [b.id for b in result.bearings]}
+
+
+def test_note_page_holds_every_part(design):
+    html = render_note_html(design)
+    for heading in ("Cautions", "Inputs", "Assumptions", "Methods and their sources",
+                    "Arrangement, to scale", "Results", "Diagrams", "Checks"):
+        assert heading in html, heading
+    for c in CAUTIONS:
+        assert c.replace("'", "&#39;") in html
+    assert "<script" not in html  # printing needs no script: charts are inline SVG
+    assert html.count('<svg') >= 6  # the drawing and the diagrams
+    assert "@page" in html and "size: A4" in html
+    assert "Przemieniecki" in html
+
+
+def test_note_context_solves_and_lists_diagrams(design):
+    ctx = note_context(design)
+    assert ctx["errors"] == [] and ctx["result"] is not None
+    assert len(ctx["charts"]) >= 6
+    assert ctx["name"] == design["name"]
+
+
+def test_note_of_an_unsolvable_design_says_why(design):
+    design["load_cases"][0]["time_fraction"] = 0.2
+    html = render_note_html(design)
+    assert "This design cannot be solved" in html and "time fractions sum to" in html
+
+
+def test_shaftwright_note_prints_a_pdf(tmp_path, design):
+    src = tmp_path / "rig.json"
+    src.write_text(json.dumps(design), encoding="utf-8")
+    out = tmp_path / "out" / "note.pdf"
+    proc = subprocess.run([sys.executable, "-m", "app.cli", "note", str(src), "-o", str(out)],
+                          cwd=ROOT, capture_output=True, text=True, timeout=180)
+    assert proc.returncode == 0, proc.stderr
+    assert out.read_bytes()[:5] == b"%PDF-"
+    text = " ".join(pdf_text(out).split())  # lines wrap anywhere in a PDF
+    assert design["name"] in text
+    assert "qualified engineer must check" in text and "verify them against the standard" in text
+    numbers = expected_numbers(design)
+    assert numbers["bearings"] == ["L", "R"] and len(numbers["lives"]) == 2  # both are rated
+    for value in numbers["reactions"] + numbers["lives"]:
+        assert value in text, value
+    info = subprocess.run(["pdfinfo", str(out)], capture_output=True, text=True, check=True).stdout
+    assert "A4" in info
+
+
+def test_shaftwright_note_refuses_a_bad_file(tmp_path, design):
+    design["supports"][1]["x_mm"] = 5000
+    src = tmp_path / "bad.json"
+    src.write_text(json.dumps(design), encoding="utf-8")
+    out = tmp_path / "bad.pdf"
+    proc = subprocess.run([sys.executable, "-m", "app.cli", "note", str(src), "-o", str(out)],
+                          cwd=ROOT, capture_output=True, text=True, timeout=60)
+    assert proc.returncode == 2 and "supports[1].x_mm" in proc.stderr
+    assert not out.exists()
+
+
+def test_print_pdf_prints_only_local_pages(tmp_path):
+    with pytest.raises(ValueError, match="only a note on this machine"):
+        print_pdf("http://example.org/note", tmp_path / "x.pdf")
+
+
+def test_diff_keys_rows_by_id(design):
+    b = copy.deepcopy(design)
+    b["elements"].insert(0, {"id": "EXTRA", "kind": "force", "x_mm": 10, "Fy_N": -5})
+    b["supports"][1]["x_mm"] = 270
+    b["load_cases"][0]["speed_rpm"] = 950
+    changes = {c.path: c for c in diff_documents(design, b)}
+    assert changes["supports[R].x_mm"].before == "280" and changes["supports[R].x_mm"].after == "270"
+    assert changes["load_cases[steady].speed_rpm"].after == "950"
+    assert changes["elements[EXTRA].kind"].kind == "added"
+    assert not any(p.startswith("elements[SPUR]") for p in changes)  # not shifted by the insert
+    assert diff_documents(design, copy.deepcopy(design)) == []
+    assert flatten({"a": [], "b": {}}) == {"a": [], "b": {}}
+
+
+def test_compare_results_side_by_side(design):
+    b = copy.deepcopy(design)
+    b["elements"][0]["torque_Nm"] = -150
+    ra, rb = engine.solve(design), engine.solve(b)
+    sections = {s.title: s for s in compare_results(ra, rb)}
+    assert set(sections) == {"Reactions", "Bearing lives", "Checks", "Shaft"}
+    rows = {r[0]: r for r in sections["Reactions"].rows}
+    row = rows["steady · R · Fr_N"]
+    assert row[3] is True and row[1] != row[2]
+    assert sections["Reactions"].changed > 0
+    same = compare_results(ra, ra)
+    assert all(s.changed == 0 for s in same)
