@@ -59,6 +59,11 @@ def main(argv: list[str] | None = None) -> int:
     p.add_argument("design")
     p.add_argument("-o", "--output", default="note.pdf")
     p.set_defaults(func=cmd_note)
+    p = sub.add_parser("study", help="vary one or two design variables, or compare arrangements")
+    from app.study_cli import add_arguments as _study_args, cmd_study
+
+    _study_args(p)
+    p.set_defaults(func=cmd_study)
     args = parser.parse_args(argv)
     return args.func(args)
 
