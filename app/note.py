@@ -40,7 +40,7 @@ from engine.result import Result
 __all__ = [
     "ROOT", "TEMPLATES", "CAUTIONS", "NoteMeta", "Change", "note_context", "render_note_html",
     "print_pdf", "cmd_note", "flatten", "diff_documents", "result_digest", "compare_results",
-    "solve_or_errors", "chromium_command",
+    "solve_or_errors", "chromium_command", "drawing_svg",
 ]
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -225,7 +225,7 @@ def _charts(result: Result) -> list[Markup]:
     return charts
 
 
-def _drawing(design: Design, result: Result | None) -> Markup | None:
+def drawing_svg(design: Design, result: Result | None) -> Markup | None:
     try:
         from app.drawing import shaft_svg
     except ImportError:
@@ -250,7 +250,7 @@ def note_context(document: dict, meta: NoteMeta | None = None) -> dict[str, Any]
     if design is None:
         return ctx
     ctx.update(inputs=_inputs(design, document), assumptions=_assumptions(design),
-               methods=_methods(result), drawing=_drawing(design, result))
+               methods=_methods(result), drawing=drawing_svg(design, result))
     if result is not None:
         ctx.update(charts=_charts(result),
                    status_counts={s: sum(c.status == s for c in result.checks)

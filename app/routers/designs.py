@@ -38,8 +38,8 @@ from fastapi.responses import HTMLResponse, JSONResponse, RedirectResponse, Resp
 
 import engine
 from app.limits import LimitError, check_counts, parse_json, read_json
-from app.note import (TEMPLATES, NoteMeta, compare_results, diff_documents, note_context,
-                      solve_or_errors)
+from app.note import (TEMPLATES, NoteMeta, compare_results, diff_documents, drawing_svg,
+                      note_context, solve_or_errors)
 from app.settings import get_settings
 from app.store import NotFound, Revision, StaleBase, Store, StoreDep, is_design_id
 from engine.model import DesignError, Issue, parse_design
@@ -317,10 +317,7 @@ def _int(text: str | None) -> int | None:
 def _revision_page(request: Request, rev: Revision, store: Store) -> HTMLResponse:
     revs = store.revisions(rev.design_id)
     design, result, errors = solve_or_errors(rev.document)
-    drawing = None
-    if design is not None:
-        from app.note import _drawing
-        drawing = _drawing(design, result)
+    drawing = drawing_svg(design, result) if design is not None else None
     return TEMPLATES.TemplateResponse(request, "revisions.html", {
         "design_id": rev.design_id, "revisions": revs, "selected": rev, "latest_n": revs[-1].n,
         "result": result, "errors": errors, "drawing": drawing,
