@@ -81,7 +81,7 @@ def shaft_svg(design: Any, result: Any = None, *, width_px: int = 900, load_case
     margin_l, margin_r = 56.0, 56.0
     scale = (width_px - margin_l - margin_r) / L
     # keep tall arrangements readable: cap the shape height, the scale stays one for x and y
-    max_h_px = 0.3 * width_px
+    max_h_px = min(0.42 * width_px, 400.0)
     if hmax_mm * scale > max_h_px:
         scale = max_h_px / hmax_mm
     draw_w = L * scale

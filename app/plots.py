@@ -13,8 +13,9 @@ before sending; that is far below what a diagram can show.
 from __future__ import annotations
 
 import json
-import math
 from typing import Any
+
+import numpy as np
 
 from app import units
 
@@ -37,14 +38,12 @@ PANELS = (
 
 
 def _r(vals: list[float], factor: float) -> list[float]:
-    out = []
-    for v in vals:
-        v = v / factor
-        if v == 0 or not math.isfinite(v):
-            out.append(0.0 if not math.isfinite(v) else v)
-        else:
-            out.append(round(v, 4 - int(math.floor(math.log10(abs(v))))))
-    return out
+    """Values / factor rounded to 5 significant figures (non-finite values become 0)."""
+    v = np.asarray(vals, dtype=float) / factor
+    v = np.where(np.isfinite(v), v, 0.0)
+    a = np.abs(v)
+    mag = np.where(a > 0, 10.0 ** (4 - np.floor(np.log10(np.where(a > 0, a, 1.0)))), 1.0)
+    return (np.round(v * mag) / mag).tolist()
 
 
 def diagram_figure(result: Any, design: Any = None, *, load_case: str | None = None,
@@ -68,7 +67,7 @@ def diagram_figure(result: Any, design: Any = None, *, load_case: str | None = N
     layout: dict[str, Any] = {
         "paper_bgcolor": "rgba(0,0,0,0)", "plot_bgcolor": "#fbfaf5",
         "font": {"family": "ui-sans-serif, system-ui, sans-serif", "size": 11, "color": "#27343c"},
-        "margin": {"l": 64, "r": 14, "t": 26, "b": 40}, "height": 820, "showlegend": True,
+        "margin": {"l": 64, "r": 14, "t": 26, "b": 40}, "height": 820, "showlegend": False,
         "legend": {"orientation": "h", "y": 1.0, "yanchor": "bottom", "x": 0, "font": {"size": 10}},
         "hovermode": "x unified", "annotations": [], "shapes": [],
         "meta": {"load_case": name, "system": system, "cases": names},
@@ -86,6 +85,8 @@ def diagram_figure(result: Any, design: Any = None, *, load_case: str | None = N
                                 "showticklabels": k == n - 1, "tickfont": {"size": 10}}
         if k:
             layout[f"xaxis{ax}"]["matches"] = "x"
+        if qty == "slope":
+            layout[f"yaxis{ax}"]["exponentformat"] = "e"
         for key, label, colour, dash in series:
             if key not in arrays:
                 continue
@@ -93,7 +94,7 @@ def diagram_figure(result: Any, design: Any = None, *, load_case: str | None = N
                          "name": label, "legendgroup": title, "xaxis": f"x{ax}", "yaxis": f"y{ax}",
                          "line": {"color": colour, "width": 1.6, "dash": dash},
                          "hovertemplate": f"%{{y:.4g}} {unit}<extra>{label}</extra>",
-                         "showlegend": k in (1, 3) or (k == 2)})
+                         "showlegend": False})
     layout["xaxis" + str(n)]["title"] = {"text": f"x along the shaft [{units.unit_label('length', system)}]"}
 
     # supports and parts
@@ -120,8 +121,7 @@ def diagram_figure(result: Any, design: Any = None, *, load_case: str | None = N
         layout["annotations"].append({"x": ex / fx, "y": 1.0, "xref": "x", "yref": "paper", "text": eid,
                                       "showarrow": False, "yanchor": "top", "font": {"color": "#9c3b25", "size": 10},
                                       "yshift": 14})
-    layout["margin"]["t"] = 44
-    layout["legend"]["y"] = 1.04
+    layout["margin"]["t"] = 30
     return {"data": data, "layout": layout}
 
 

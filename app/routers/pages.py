@@ -115,7 +115,7 @@ def solve_form(form: Mapping[str, str]) -> dict[str, Any]:
         "form": form, "system": system, "design": design, "data": data, "result": result,
         "issues": issues, "slots": web.place_issues(issues, form), "view_case": view_case,
         "case_names": case_names,
-        "drawing": drawing.shaft_svg(design, result, load_case=view_case, system=system) if design is not None else None,
+        "drawing": drawing.shaft_svg(design, result, load_case=view_case, system=system, width_px=1120) if design is not None else None,
         "plot_json": plots.diagram_json(result, design, load_case=view_case, system=system) if result is not None else None,
         "checks": _sorted_checks(result) if result is not None else [],
         "n_supports": len(design.supports) if design is not None else 0,
