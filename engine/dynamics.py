@@ -1,0 +1,236 @@
+"""Shaft dynamics: lateral natural frequencies (consistent-mass finite elements), Rayleigh's
+estimate as a cross-check, and the first torsional frequency of the inertias on the shaft.
+
+Units inside: mm, N, tonne (10³ kg), s — a consistent set: N/mm ÷ t = 1/s². Frequencies are
+returned in rpm (cycles per minute, 60·ω/2π).
+
+Public functions
+----------------
+- :func:`dynamics_mesh` — a coarser copy of the solver's mesh for the eigenproblem.
+- :func:`consistent_mass` — global consistent mass matrix of the beam elements.
+- :func:`lateral_system` — K (from :func:`engine.beam.bending_stiffness`), M, free DOFs.
+- :func:`generalized_eigen` — K φ = ω² M φ by Cholesky of M and ``numpy.linalg.eigh``.
+- :func:`lateral_frequencies` — the first few lateral frequencies and mode shapes of a design.
+- :func:`rayleigh_frequency` — Rayleigh's quotient with the static deflection shape.
+- :func:`torsional_frequency` — first torsional frequency of the element inertias.
+
+Notes
+-----
+Both transverse planes have the same frequencies (round section, isotropic supports), so one
+plane is solved. Element masses are lumped at their nodes (translation only; their diametral
+inertia and gyroscopic effects are left out). The shaft's rotary inertia is left out, so with
+``analysis.shear_deformation`` the stiffness is Timoshenko's and the mass Euler–Bernoulli's.
+Rigid supports pin the deflection; elastic ones add their radial stiffness at the node.
+
+References
+----------
+.. [1] Przemieniecki, J. S., *Theory of Matrix Structural Analysis*, McGraw-Hill, 1968, §11
+   (consistent mass matrix of a beam element).
+.. [2] Bathe, K.-J., *Finite Element Procedures*, 1996, §10.2 (reduction of the generalised
+   eigenproblem to standard form with the Cholesky factor).
+.. [3] Budynas, R. G., Nisbett, J. K., *Shigley's Mechanical Engineering Design*, 9th ed.,
+   §7-6, Eq. 7-23 (Rayleigh's method for a shaft with lumped masses) and Eq. 7-22
+   (simply supported uniform shaft).
+.. [4] Den Hartog, J. P., *Mechanical Vibrations*, 4th ed., 1956, §5 (two-inertia torsional system).
+"""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from engine.beam import Mesh, bending_stiffness, build_mesh
+from engine.model import Design
+
+__all__ = ["DYNAMICS_ELEMENTS", "dynamics_mesh", "consistent_mass", "lateral_system",
+           "generalized_eigen", "LateralModes", "lateral_frequencies", "rayleigh_frequency",
+           "torsional_frequency", "rad_s_to_rpm"]
+
+# Elements for the eigenproblem: a few dozen consistent-mass elements give the first three
+# frequencies of a stepped shaft to well under 0.1 %, and keep eigh on a small matrix.
+DYNAMICS_ELEMENTS = 40
+
+
+def rad_s_to_rpm(omega):
+    """ω [rad/s] → n [rpm] = 60·ω/(2π)."""
+    return np.asarray(omega, float) * 30.0 / math.pi
+
+
+def dynamics_mesh(design: Design, *, elements: int = DYNAMICS_ELEMENTS) -> Mesh:
+    """The solver's mesh rebuilt with ``elements`` target elements (nodes still at every segment
+    change, support, element and groove)."""
+    n = min(elements, design.analysis.elements)
+    d = design.model_copy(update={"analysis": design.analysis.model_copy(update={"elements": n})})
+    return build_mesh(d)
+
+
+def consistent_mass(mesh: Mesh, *, rho_t_mm3: float) -> np.ndarray:
+    """Global consistent mass matrix (2N, 2N) [t], DOFs [v0, θ0, v1, θ1, …].
+
+    .. math:: m_e = \\frac{\\rho A L}{420}\\begin{bmatrix}156 & 22L & 54 & -13L\\\\
+              22L & 4L^2 & 13L & -3L^2\\\\ 54 & 13L & 156 & -22L\\\\ -13L & -3L^2 & -22L & 4L^2\\end{bmatrix}
+
+    Parameters
+    ----------
+    mesh : the beam mesh (element lengths [mm] and areas [mm²])
+    rho_t_mm3 : density, [t/mm³] (kg/m³ · 10⁻¹²)
+
+    References: Przemieniecki [1], Eq. 11.39 (Euler–Bernoulli beam element).
+    """
+    L = mesh.le_mm
+    c = rho_t_mm3 * mesh.A_mm2 * L / 420.0
+    one = np.ones_like(L)
+    me = np.stack([
+        np.stack([156 * one, 22 * L, 54 * one, -13 * L], 1),
+        np.stack([22 * L, 4 * L**2, 13 * L, -3 * L**2], 1),
+        np.stack([54 * one, 13 * L, 156 * one, -22 * L], 1),
+        np.stack([-13 * L, -3 * L**2, -22 * L, 4 * L**2], 1),
+    ], 1) * c[:, None, None]
+    n = 2 * mesh.n_nodes
+    i = np.arange(L.size)[:, None]
+    dof = np.hstack([2 * i, 2 * i + 1, 2 * i + 2, 2 * i + 3])
+    flat = (dof[:, :, None] * n + dof[:, None, :]).ravel()
+    return np.bincount(flat, weights=me.ravel(), minlength=n * n).reshape(n, n)
+
+
+def lateral_system(design: Design, mesh: Mesh) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(K, M, free): stiffness [N/mm] with support springs, mass [t] with the element masses
+    lumped at their nodes, and the indices of the DOFs left free by the rigid supports."""
+    mat = design.shaft.material
+    K, _ = bending_stiffness(mesh, E_MPa=mat.E_GPa * 1e3, G_MPa=mat.G_GPa * 1e3,
+                             shear=design.analysis.shear_deformation)
+    M = consistent_mass(mesh, rho_t_mm3=mat.density_kg_m3 * 1e-12)
+    for e, node in zip(design.elements, mesh.element_nodes):
+        M[2 * node, 2 * node] += e.mass_kg * 1e-3
+    fixed = []
+    for s, node in zip(design.supports, mesh.support_nodes):
+        if s.radial_stiffness_N_per_mm is None:
+            fixed.append(2 * node)
+        else:
+            K[2 * node, 2 * node] += s.radial_stiffness_N_per_mm
+    free = np.setdiff1d(np.arange(K.shape[0]), fixed)
+    return K, M, free
+
+
+def generalized_eigen(K: np.ndarray, M: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Solve K φ = λ M φ for symmetric positive definite K and positive semi-definite M.
+
+    With the Cholesky factor K = L·Lᵀ the problem becomes the standard symmetric one
+    (L⁻¹ M L⁻ᵀ) ψ = μ ψ with μ = 1/λ and φ = L⁻ᵀ ψ (Bathe [2] §10.2.5). Factoring K rather
+    than M keeps the lowest modes accurate when heavy lumped masses sit on a light shaft (M
+    is then badly conditioned, K is not), and a massless DOF only gives λ = ∞.
+    Returns (λ ascending, Φ columns M-orthonormal; columns of infinite λ left unscaled).
+
+    >>> lam, _ = generalized_eigen(np.array([[2.0, -1.0], [-1.0, 2.0]]), np.eye(2))
+    >>> [round(float(v), 6) for v in lam]
+    [1.0, 3.0]
+    """
+    Lc = np.linalg.cholesky(K)
+    Linv = np.linalg.inv(Lc)  # triangular and small: the explicit inverse is cheap and stable here
+    B = Linv @ M @ Linv.T
+    scale = float(np.abs(B).max()) or 1.0  # eigh is markedly slower on badly scaled entries here
+    mu, psi = np.linalg.eigh((0.5 / scale) * (B + B.T))
+    mu = mu[::-1] * scale
+    phi = Linv.T @ psi[:, ::-1]
+    with np.errstate(divide="ignore"):
+        lam = np.where(mu > 1e-14 * mu[0], 1.0 / np.maximum(mu, 1e-300), np.inf)
+    mass = np.einsum("ij,ik,kj->j", phi, M, phi)
+    phi = phi / np.sqrt(np.where(mass > 0, mass, 1.0))
+    return lam, phi
+
+
+@dataclass(frozen=True)
+class LateralModes:
+    """First lateral modes: ω [rad/s], n [rpm], mode shapes on the free DOFs, and the reduced
+    matrices (for Rayleigh's cross-check)."""
+
+    omega_rad_s: np.ndarray
+    rpm: np.ndarray
+    shapes: np.ndarray
+    K: np.ndarray
+    M: np.ndarray
+    free: np.ndarray
+    mesh: Mesh
+
+
+def lateral_frequencies(design: Design, *, n_modes: int = 3, mesh: Mesh | None = None) -> LateralModes:
+    """The first ``n_modes`` lateral natural frequencies of the shaft on its supports.
+
+    .. math:: (K - \\omega^2 M)\\,\\phi = 0
+
+    Parameters
+    ----------
+    design : the design (shaft, supports with optional radial stiffness, element masses)
+    n_modes : how many modes to return
+    mesh : the mesh to use; default :func:`dynamics_mesh`
+
+    Notes
+    -----
+    Check: a uniform simply supported shaft gives ωₙ = (nπ/L)²·√(EI/(ρA)) (Shigley [3]
+    Eq. 7-22); with 40 elements the third mode is within 0.01 %.
+    """
+    mesh = dynamics_mesh(design) if mesh is None else mesh
+    K, M, free = lateral_system(design, mesh)
+    Kf, Mf = K[np.ix_(free, free)], M[np.ix_(free, free)]
+    lam, phi = generalized_eigen(Kf, Mf)
+    lam = np.maximum(lam[:n_modes], 0.0)
+    omega = np.sqrt(lam)
+    return LateralModes(omega_rad_s=omega, rpm=rad_s_to_rpm(omega), shapes=phi[:, :n_modes],
+                        K=Kf, M=Mf, free=free, mesh=mesh)
+
+
+def rayleigh_frequency(modes: LateralModes) -> float:
+    """Rayleigh's estimate of the first lateral frequency [rpm] (Shigley [3] Eq. 7-23).
+
+    .. math:: \\omega_1^2 \\approx \\frac{y^T K y}{y^T M y},\\quad K y = M r
+
+    y is the static deflection under the weights (consistent mass times a unit acceleration
+    r), each weight pushed the way the first mode moves its point, as Shigley advises for
+    overhangs. For lumped masses this is √(g·Σwᵢyᵢ / Σwᵢyᵢ²). It bounds ω₁ from above.
+    """
+    K, M = modes.K, modes.M
+    trans = np.asarray((modes.free % 2) == 0)
+    mode1 = modes.shapes[:, 0]
+    r = np.where(trans, np.sign(mode1), 0.0)
+    r[trans & (r == 0)] = 1.0
+    y = np.linalg.solve(K, M @ r)
+    return float(rad_s_to_rpm(math.sqrt(max(y @ K @ y, 0.0) / (y @ M @ y))))
+
+
+def torsional_frequency(design: Design, mesh: Mesh) -> float | None:
+    """First torsional natural frequency of the element inertias on the shaft [rpm].
+
+    Elements with ``inertia_kg_m2`` form a chain of inertias Jᵢ joined by the shaft lengths
+    between them, kᵢ = G / Σ(Lₑ/Jₚ,ₑ) over the mesh elements in between (N·mm/rad). For two
+    inertias (Den Hartog [4]):
+
+    .. math:: \\omega = \\sqrt{k\\,\\frac{J_1 + J_2}{J_1 J_2}}
+
+    and for more, the lowest non-zero eigenvalue of the chain. The shaft's own inertia is left
+    out. Returns None when fewer than two elements carry an inertia.
+    """
+    items = sorted(((float(mesh.x_mm[n]), e.inertia_kg_m2) for e, n in zip(design.elements, mesh.element_nodes)
+                    if getattr(e, "inertia_kg_m2", None)), key=lambda t: t[0])
+    if len(items) < 2:
+        return None
+    G = design.shaft.material.G_GPa * 1e3
+    flex = mesh.le_mm / (G * mesh.J_mm4)  # rad per N·mm, per element
+    cum = np.concatenate([[0.0], np.cumsum(flex)])
+    node_of = lambda x: int(np.argmin(np.abs(mesh.x_mm - x)))  # noqa: E731
+    xs = [node_of(x) for x, _ in items]
+    J = np.array([j for _, j in items])
+    k = []
+    for a, b in zip(xs[:-1], xs[1:]):
+        f = cum[b] - cum[a]
+        k.append(1e-3 / f if f > 0 else np.inf)  # N·m/rad
+    k = np.array(k)
+    if not np.all(np.isfinite(k)):
+        return None  # two inertias at one point: no shaft between them
+    n = J.size
+    Kt = np.zeros((n, n))
+    for i, ki in enumerate(k):
+        Kt[i:i + 2, i:i + 2] += ki * np.array([[1.0, -1.0], [-1.0, 1.0]])
+    s = 1.0 / np.sqrt(J)
+    lam = np.linalg.eigvalsh(s[:, None] * Kt * s[None, :])
+    return float(rad_s_to_rpm(math.sqrt(max(lam[1], 0.0))))
