@@ -91,7 +91,7 @@ def induced_ratio(bearing_type: str | None, *, Y=None, contact_angle_deg=None):
 
     Examples
     --------
-    >>> induced_ratio("tapered_roller", Y=1.6)
+    >>> float(induced_ratio("tapered_roller", Y=1.6))
     0.3125
     >>> round(float(induced_ratio("angular_contact_ball", contact_angle_deg=40)), 2)
     1.14

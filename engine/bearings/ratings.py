@@ -69,12 +69,12 @@ SPEED_FACTOR_MM_PER_MIN = {
 GEOMETRY_ASSUMPTIONS = """\
 Rolling elements assumed from the boundary envelope d, D, B (ours, stated so they can be checked):
   pitch diameter Dpw = (d + D)/2; radial section h = (D - d)/2.
-  deep groove ball: Dw = 0.60*h rounded to 1/32 in; Z = floor(0.60*pi*Dpw/Dw) (filling-notch-free assembly); i = 1; alpha = 0.
-  angular contact ball: Dw = 0.60*h rounded to 1/32 in; Z = floor(0.80*pi*Dpw/Dw); i = 1; alpha = 25 or 40 deg.
-  self-aligning ball: Dw = 0.50*h rounded to 1/32 in; Z per row = floor(0.75*pi*Dpw/Dw); i = 2; alpha = 12 deg (series 02), 15 deg (series 03).
-  cylindrical roller: Dwe = 0.50*h; Lwe = 0.55*B; Z = floor(0.80*pi*Dpw/Dwe); i = 1.
-  tapered roller: Dwe = 0.48*h (mean); Lwe = 0.70*T; Z = floor(0.85*pi*Dpw/Dwe); i = 1; cup angle alpha = 14 deg (series 02), 12 deg (series 03).
-  spherical roller: Dwe = 0.42*h; Lwe = 0.38*B per row; Z per row = floor(0.80*pi*Dpw/Dwe); i = 2; alpha = 10 deg (series 22), 13 deg (series 23).
+  deep groove ball: Dw = 0.60*h rounded to 1/32 in; Z = round(0.60*pi*Dpw/Dw) (filling-notch-free assembly); i = 1; alpha = 0.
+  angular contact ball: Dw = 0.60*h rounded to 1/32 in; Z = round(0.80*pi*Dpw/Dw); i = 1; alpha = 25 or 40 deg.
+  self-aligning ball: Dw = 0.50*h rounded to 1/32 in; Z per row = round(0.75*pi*Dpw/Dw); i = 2; alpha = 12 deg (series 02), 15 deg (series 03).
+  cylindrical roller: Dwe = 0.50*h; Lwe = 0.55*B; Z = round(0.80*pi*Dpw/Dwe); i = 1.
+  tapered roller: Dwe = 0.48*h (mean); Lwe = 0.70*T; Z = round(0.85*pi*Dpw/Dwe); i = 1; cup angle alpha = 14 deg (series 02), 12 deg (series 03).
+  spherical roller: Dwe = 0.42*h; Lwe = 0.38*B per row; Z per row = round(0.80*pi*Dpw/Dwe); i = 2; alpha = 10 deg (series 22), 13 deg (series 23).
   limiting speed = n*dm limit / dm, with n*dm [mm/min] = 500 000 deep groove, 450 000 angular contact and cylindrical,
   400 000 self-aligning ball, 350 000 tapered, 300 000 spherical (rough grease values, common practice)."""
 
@@ -232,24 +232,24 @@ def internal_geometry(bearing_type: str, *, d_mm: float, D_mm: float, B_mm: floa
     ball = lambda k: max(INCH32 * round(k * h / INCH32), INCH32)  # noqa: E731
     if bearing_type == "deep_groove_ball":
         Dw = ball(0.60)
-        return Geometry(1, int(0.60 * math.pi * Dpw / Dw), Dw, 0.0, Dpw, 0.0)
+        return Geometry(1, round(0.60 * math.pi * Dpw / Dw), Dw, 0.0, Dpw, 0.0)
     if bearing_type == "angular_contact_ball":
         Dw = ball(0.60)
-        return Geometry(1, int(0.80 * math.pi * Dpw / Dw), Dw, 0.0, Dpw, float(alpha_deg))
+        return Geometry(1, round(0.80 * math.pi * Dpw / Dw), Dw, 0.0, Dpw, float(alpha_deg))
     if bearing_type == "self_aligning_ball":
         Dw = ball(0.50)
-        return Geometry(2, int(0.75 * math.pi * Dpw / Dw), Dw, 0.0, Dpw,
+        return Geometry(2, round(0.75 * math.pi * Dpw / Dw), Dw, 0.0, Dpw,
                         _ALPHA_BY_SERIES[bearing_type][series])
     if bearing_type == "cylindrical_roller":
         Dwe = 0.50 * h
-        return Geometry(1, int(0.80 * math.pi * Dpw / Dwe), Dwe, 0.55 * B_mm, Dpw, 0.0)
+        return Geometry(1, round(0.80 * math.pi * Dpw / Dwe), Dwe, 0.55 * B_mm, Dpw, 0.0)
     if bearing_type == "tapered_roller":
         Dwe = 0.48 * h
-        return Geometry(1, int(0.85 * math.pi * Dpw / Dwe), Dwe, 0.70 * B_mm, Dpw,
+        return Geometry(1, round(0.85 * math.pi * Dpw / Dwe), Dwe, 0.70 * B_mm, Dpw,
                         _ALPHA_BY_SERIES[bearing_type][series])
     if bearing_type == "spherical_roller":
         Dwe = 0.42 * h
-        return Geometry(2, int(0.80 * math.pi * Dpw / Dwe), Dwe, 0.38 * B_mm, Dpw,
+        return Geometry(2, round(0.80 * math.pi * Dpw / Dwe), Dwe, 0.38 * B_mm, Dpw,
                         _ALPHA_BY_SERIES[bearing_type][series])
     raise ValueError(f"no geometry rule for {bearing_type!r}")
 
