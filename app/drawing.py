@@ -296,7 +296,8 @@ def shaft_svg(design: Any, result: Any = None, *, width_px: int = 900, load_case
 
     # scale bar along the bottom: ticks at round values of x
     yd = height - 16
-    step = _nice_step(L)
+    f_len = units.from_display(1.0, "length", system)  # mm per display unit
+    step = _nice_step(L / f_len) * f_len
     out.append(f'<line class="sd-dim" x1="{X(0):.1f}" y1="{yd:.1f}" x2="{X(L):.1f}" y2="{yd:.1f}"/>')
     k = 0.0
     while k <= L + 1e-9:

@@ -57,7 +57,7 @@ QUANTITIES: dict[str, Quantity] = {
     "power": Quantity("kW", "hp", 0.745699872),
     "mass": Quantity("kg", "lb", _LB_KG),
     "stress": Quantity("MPa", "ksi", _PSI_MPA * 1000.0),
-    "modulus": Quantity("GPa", "Mpsi", _PSI_MPA),  # 1 Mpsi = 6.894757 GPa
+    "modulus": Quantity("GPa", "Mpsi", _PSI_MPA * 1000.0),  # 1 Mpsi = 6.894757 GPa
     "density": Quantity("kg/m³", "lb/in³", _LB_KG / (_IN_MM * 1e-3) ** 3),
     "time": Quantity("h", "h", 1.0),
     "angle": Quantity("°", "°", 1.0),

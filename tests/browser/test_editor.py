@@ -119,6 +119,8 @@ def test_add_third_support_gives_indeterminate_solution(page, live_server, artif
     assert page.evaluate("document.activeElement && document.activeElement.name") == "supports[2].x_mm"
     gear_x = float(page.locator(f"[name='elements[{_first_gear(page)}].x_mm']").input_value())
     x.fill(f"{gear_x + 30:g}")
+    page.wait_for_function("(x) => [...document.querySelectorAll('table.reactions tr[data-support=\"C\"] td')]"
+                           ".some(td => td.innerText === x)", arg=f"{gear_x + 30:g}")
     _wait_fresh(page)
     page.wait_for_selector("#indeterminate")
     assert "3 supports" in page.locator("#indeterminate").inner_text()

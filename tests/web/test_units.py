@@ -16,6 +16,8 @@ def test_exact_factors():
     assert math.isclose(units.to_display(4.4482216152605, "force", "us"), 1.0)
     assert math.isclose(units.to_display(4.4482216152605 * 0.3048, "moment", "us"), 1.0)
     assert math.isclose(units.to_display(6.894757293168, "stress", "us"), 1.0)  # 1 ksi
+    assert math.isclose(units.to_display(6.894757293168, "modulus", "us"), 1.0)  # 1 Mpsi = 10^6 psi
+    assert math.isclose(units.to_display(205.0, "modulus", "us"), 29.7325, rel_tol=1e-5)  # steel E
     assert math.isclose(units.to_display(0.745699872, "power", "us"), 1.0)
     assert math.isclose(units.to_display(27679.9047, "density", "us"), 1.0, rel_tol=1e-8)  # 1 lb/in³
 
