@@ -91,7 +91,7 @@ def stepped(overhang=False, shear=True):
 @pytest.mark.parametrize("overhang", [False, True])
 def test_rayleigh_bounds_the_finite_element_value_on_a_stepped_shaft(overhang):
     # Rayleigh's quotient is an upper bound of ω1 and, with the static deflection shape, close
-    # to it (Shigley 9th ed. §7-6, Eq. 7-23; Meirovitch, Elements of Vibration Analysis, §7.?:
+    # to it (Shigley 9th ed. §7-6, Eq. 7-23;
     # from memory). Tolerance 3 %: the static shape is not the mode shape.
     modes = lateral_frequencies(stepped(overhang))
     r = rayleigh_frequency(modes)
