@@ -136,16 +136,18 @@ def _form_of(raw: Any) -> dict[str, str]:
 
 
 def render_editor(request: Request, design: Mapping[str, Any], *, title: str | None = None,
-                  storage_key: str | None = None, system: str = "si", status_code: int = 200) -> HTMLResponse:
+                  storage_key: str | None = None, system: str = "si", status_code: int = 200,
+                  share: dict[str, Any] | None = None) -> HTMLResponse:
     """The whole editor page for ``design`` (a mapping, SI-mm).
 
     ``storage_key`` names the browser's local copy of the working design (default: the page
-    path), so that a reload loses nothing until the design is saved.
+    path), so that a reload loses nothing until the design is saved. ``share`` is the state of
+    the save-and-share panel (``partials/share_panel.html``; see ``app.routers.designs``).
     """
     form = web.design_to_form(design, system)
     ctx = solve_form(form)
     ctx.update(sections=web.editor_sections(form), focus=None, title=title or form.get("name") or "Shaftwright",
-               storage_key=storage_key or request.url.path, plotly_src=f"/vendor/plotly-{PLOTLY_VERSION}.min.js")
+               storage_key=storage_key or request.url.path, plotly_src=f"/vendor/plotly-{PLOTLY_VERSION}.min.js", share=share)
     return templates.TemplateResponse(request, "editor.html", ctx, status_code=status_code)
 
 
