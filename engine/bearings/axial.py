@@ -161,6 +161,13 @@ def resolve_axial(design: Design, Fr_N: np.ndarray, Fa_ext_N: np.ndarray, *,
     sup = design.supports
     if ns != len(sup) or Ka.size != nc:
         raise ValueError(f"Fr_N must be (n_cases, {len(sup)}) and Fa_ext_N ({nc},); got {Fr.shape}, {Ka.shape}")
+    for i, s in enumerate(sup):
+        a = s.contact_angle_deg
+        if s.bearing_type == "angular_contact_ball" and a is not None and not (20.0 <= a <= 45.0):
+            raise EngineError.at(
+                f"supports[{i}].contact_angle_deg",
+                f"{s.id}: contact angle {a:g}° is outside 20–45°, where the load factors are tabulated "
+                "here (below 20° ISO 281 makes them depend on i·Fa/C0, not implemented); use 25° or 40°")
     roles_in = [s.axial for s in sup]
     both = [i for i, r in enumerate(roles_in) if r == "both"]
     plus = [i for i, r in enumerate(roles_in) if r == "+x"]

@@ -132,6 +132,8 @@ def weibull_factor(reliability_pct, *, x0: float = WEIBULL_X0, theta: float = WE
 # ISO 281 aISO coefficients per κ band (memory): (c1 ball, k, c1 roller)
 _BANDS = ((0.1, 0.4, 2.2649, 0.054381, 1.3993), (0.4, 1.0, 1.9987, 0.19087, 1.2348),
           (1.0, 4.0, 1.9987, 0.071739, 1.2348))
+_EDGES = np.array([0.4, 1.0])
+_C1_BALL, _K, _C1_ROLLER = (np.array([b[j] for b in _BANDS]) for j in (2, 3, 4))
 
 
 def a_iso(*, kappa, ec_Cu_P, roller):
@@ -172,9 +174,8 @@ def a_iso(*, kappa, ec_Cu_P, roller):
     k_ = np.clip(np.asarray(kappa, float), KAPPA_MIN, KAPPA_MAX)
     x = np.maximum(np.asarray(ec_Cu_P, float), 0.0)
     roller = np.asarray(roller, bool)
-    c1b = np.select([k_ < 0.4, k_ < 1.0], [_BANDS[0][2], _BANDS[1][2]], _BANDS[2][2])
-    kk = np.select([k_ < 0.4, k_ < 1.0], [_BANDS[0][3], _BANDS[1][3]], _BANDS[2][3])
-    c1r = np.select([k_ < 0.4, k_ < 1.0], [_BANDS[0][4], _BANDS[1][4]], _BANDS[2][4])
+    band = np.searchsorted(_EDGES, k_, side="right")  # 0: κ < 0.4, 1: κ < 1, 2: κ ≥ 1
+    c1b, kk, c1r = _C1_BALL[band], _K[band], _C1_ROLLER[band]
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         ball_in = 1.0 - np.maximum(2.5671 - c1b / k_ ** kk, 0.0) ** 0.83 * x ** (1.0 / 3.0)
         roll_in = 1.0 - np.maximum(1.5859 - c1r / k_ ** kk, 0.0) * x ** 0.4
@@ -229,8 +230,8 @@ def miner_life_h(life_h, *, time_fraction, axis: int = -1):
 
     Examples
     --------
-    >>> float(miner_life_h([10000.0, 5000.0], time_fraction=[0.5, 0.5]))
-    6666.666666666667
+    >>> round(float(miner_life_h([10000.0, 5000.0], time_fraction=[0.5, 0.5])), 6)
+    6666.666667
     """
     L = np.moveaxis(np.asarray(life_h, float), axis, -1)
     with np.errstate(divide="ignore"):

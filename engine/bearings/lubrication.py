@@ -20,6 +20,7 @@ high VI or esters may deviate; use the supplier's data when at hand.
 """
 from __future__ import annotations
 
+import functools
 import math
 
 import numpy as np
@@ -68,6 +69,7 @@ def _nu40_for(Y: float, VI: float) -> float:
     return H / Y ** N
 
 
+@functools.lru_cache(maxsize=256)
 def nu100_from_vg(iso_vg: float, *, viscosity_index: float = 95.0) -> float:
     """Kinematic viscosity at 100 °C of an oil given its ISO VG grade and viscosity index.
 

@@ -139,3 +139,11 @@ def test_two_supports_same_direction_is_an_error():
     with pytest.raises(EngineError) as ei:
         resolve_axial(d, np.ones((1, 3)), np.array([0.0]))
     assert ei.value.errors[0].path == "supports[1].axial"
+
+
+def test_contact_angle_outside_table_is_an_engine_error():
+    d = make_design([_sup("A", 20, "angular_contact_ball", "-x", contact_angle_deg=15),
+                     _sup("B", 280, "angular_contact_ball", "+x", contact_angle_deg=15)])
+    with pytest.raises(EngineError) as ei:
+        resolve_axial(d, np.array([[1000.0, 1000.0]]), np.array([0.0]))
+    assert ei.value.errors[0].path == "supports[0].contact_angle_deg"

@@ -263,3 +263,17 @@ def test_rate_bearings_is_fast():
         rate_bearings(d, Fr_N=Fr, Fa_ext_N=Ka)
         times.append(time.perf_counter() - t0)
     assert float(np.median(times)) < 0.01
+
+
+def test_unloaded_bearing_gives_finite_json():
+    d = make_design([{"id": "A", "x_mm": 20, "bearing_type": "deep_groove_ball", "axial": "both"},
+                     {"id": "B", "x_mm": 280, "bearing_type": "spherical_roller", "axial": "none"}])
+    out = rate_bearings(d, Fr_N=np.zeros((1, 2)), Fa_ext_N=np.zeros(1))
+    import json
+    for b in out.bearings:
+        text = b.model_dump_json()
+        assert "Infinity" not in text and "NaN" not in text
+        assert b.candidates and all(c.ok for c in b.candidates)
+    for c in out.checks:
+        assert "Infinity" not in c.model_dump_json()
+    json.loads(out.bearings[0].model_dump_json())
