@@ -3,22 +3,16 @@ from __future__ import annotations
 
 import copy
 import json
-import os
-import socket
-import subprocess
-import sys
-import time
 from pathlib import Path
 
-import httpx
 import pytest
 from fastapi.testclient import TestClient
 
 from app.main import create_app
 from app.settings import Settings, get_settings
+from tests.browser.conftest import start_server, stop_server
 
 HERE = Path(__file__).resolve().parent
-ROOT = HERE.parents[1]
 EXAMPLE = json.loads((HERE / "example_design.json").read_text(encoding="utf-8"))
 
 
@@ -45,47 +39,19 @@ def client(db_path) -> TestClient:
     return make_client(db_path)
 
 
-def free_port() -> int:
-    with socket.socket() as s:
-        s.bind(("127.0.0.1", 0))
-        return s.getsockname()[1]
-
-
 class Server:
-    """``uvicorn app.main:create_app --factory`` in a subprocess, bound to one database file."""
+    """The app in a uvicorn subprocess bound to one database file (the browser tests' helper)."""
 
     def __init__(self, db: Path):
-        self.db, self.port, self.proc = db, free_port(), None
-
-    @property
-    def url(self) -> str:
-        return f"http://127.0.0.1:{self.port}"
+        self.db, self.proc, self.url = db, None, ""
 
     def start(self) -> "Server":
-        env = {**os.environ, "SHAFTWRIGHT_DB": str(self.db), "PYTHONPATH": str(ROOT)}
-        self.proc = subprocess.Popen(
-            [sys.executable, "-m", "uvicorn", "app.main:create_app", "--factory",
-             "--host", "127.0.0.1", "--port", str(self.port), "--log-level", "warning"],
-            cwd=ROOT, env=env, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
-        deadline = time.monotonic() + 30
-        while time.monotonic() < deadline:
-            if self.proc.poll() is not None:
-                raise RuntimeError("server exited: " + self.proc.stderr.read().decode()[-2000:])
-            try:
-                httpx.get(self.url + "/api/designs/x", timeout=1.0)
-                return self
-            except httpx.TransportError:
-                time.sleep(0.1)
-        raise RuntimeError("server did not start within 30 s")
+        self.proc, self.url = start_server({"SHAFTWRIGHT_DB": str(self.db)})
+        return self
 
     def stop(self) -> None:
-        if self.proc and self.proc.poll() is None:
-            self.proc.terminate()
-            try:
-                self.proc.wait(timeout=10)
-            except subprocess.TimeoutExpired:
-                self.proc.kill()
-                self.proc.wait()
+        if self.proc is not None and self.proc.poll() is None:
+            stop_server(self.proc)
 
 
 @pytest.fixture
