@@ -154,7 +154,7 @@ def rate_bearings(design: Design, *, Fr_N: np.ndarray, Fa_ext_N: np.ndarray,
     ratio0 = np.zeros(len(design.supports))
     for i, sp in sups.items():
         ratio0[i] = sp.default_ratio(cat)
-    split = resolve_axial(design, Fr, Ka, induced_ratio_=ratio0)
+    split = resolve_axial(design, Fr, Ka, induced_ratios=ratio0)
 
     # reliability factor
     if req.reliability_method == "weibull":
@@ -210,7 +210,7 @@ def rate_bearings(design: Design, *, Fr_N: np.ndarray, Fa_ext_N: np.ndarray,
             for i in members:
                 top = sups[i].rows[orders[i][0]]
                 ratio1[i] = float(sups[i].row_ratio(cat, np.array([top]))[0])
-            split = resolve_axial(design, Fr, Ka, induced_ratio_=ratio1)
+            split = resolve_axial(design, Fr, Ka, induced_ratios=ratio1)
             for i in members:
                 screens[i] = do_screen(sups[i], split)
                 orders[i] = rank(cat, screens[i], np.flatnonzero(sups[i].fit))
@@ -220,8 +220,11 @@ def rate_bearings(design: Design, *, Fr_N: np.ndarray, Fa_ext_N: np.ndarray,
     for i, sp in sups.items():
         sc, order, s = screens[i], orders[i], sp.s
         word = _TYPE_WORDS[sp.kind]
-        notes = [f"life method: {method}; for comparison {other}",
-                 f"application factor {af:g} applied to Fr and Fa for P and P0"]
+        notes = [f"life method: {method}; for comparison {other}"]
+        if order.size:
+            alt = float(sc.Lnm_h[order[0]]) * a_other / a_R
+            notes[0] += f" (it would give {_fmt(alt)} h for {cat.designation[sc.idx[order[0]]]})"
+        notes.append(f"application factor {af:g} applied to Fr and Fa for P and P0")
         if catalogue is None:
             notes.append(ILLUSTRATIVE)
         if sp.paired:

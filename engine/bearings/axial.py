@@ -128,7 +128,7 @@ def _names(design: Design, idx) -> str:
 
 def resolve_axial(design: Design, Fr_N: np.ndarray, Fa_ext_N: np.ndarray, *,
                   Y_induced: np.ndarray | None = None,
-                  induced_ratio_: np.ndarray | None = None) -> AxialSplit:
+                  induced_ratios: np.ndarray | None = None) -> AxialSplit:
     """Split the external axial force between the supports, with induced forces of pairs.
 
     Parameters
@@ -143,7 +143,7 @@ def resolve_axial(design: Design, Fr_N: np.ndarray, Fa_ext_N: np.ndarray, *,
         (n_cases, n_supports); used for tapered supports (S = 0.5·Fr/Y). Default: 1.6, a
         first-pass value (common practice). Angular contact supports use e of their contact
         angle (``contact_angle_deg``, default 40°) and ignore Y.
-    induced_ratio_ : ndarray, optional
+    induced_ratios : ndarray, optional
         S/Fr per support, overriding the above (used when a catalogue row refines it).
 
     Returns
@@ -196,8 +196,8 @@ def resolve_axial(design: Design, Fr_N: np.ndarray, Fa_ext_N: np.ndarray, *,
                 "as one support")
 
     ratio = np.zeros((nc, ns))
-    if induced_ratio_ is not None:
-        ratio[:] = np.broadcast_to(np.asarray(induced_ratio_, float), (nc, ns))
+    if induced_ratios is not None:
+        ratio[:] = np.broadcast_to(np.asarray(induced_ratios, float), (nc, ns))
     else:
         Yb = None if Y_induced is None else np.broadcast_to(np.asarray(Y_induced, float), (nc, ns))
         for i, s in enumerate(sup):

@@ -92,6 +92,8 @@ def test_weibull_method_is_labelled_and_used():
     # textbook Weibull factor at 99 % (Shigley 9th ed., memory): 0.2196
     assert c.Lnm_h == pytest.approx(float(weibull_factor(99)) * c.L10_h, rel=1e-12)
     assert "Weibull" in b.life_method and "a1" in b.notes[0]   # the other method is offered beside
+    alt = c.Lnm_h * float(a1_iso(99)) / float(weibull_factor(99))
+    assert f"{alt:,.0f}".replace(",", " ") in b.notes[0]
 
 
 def test_aiso_used_when_lubricant_and_contamination_given():
