@@ -126,9 +126,17 @@ def diagram_figure(result: Any, design: Any = None, *, load_case: str | None = N
 
 
 def diagram_json(result: Any, design: Any = None, *, load_case: str | None = None, system: str = "si") -> str:
-    """:func:`diagram_figure` as compact JSON, safe to place inside a ``<script>`` element."""
-    s = json.dumps(diagram_figure(result, design, load_case=load_case, system=system),
-                   separators=(",", ":"), ensure_ascii=False)
+    """:func:`diagram_figure` as compact JSON, safe inside a ``<script>`` element.
+
+    The x values, the same for every trace, are sent once as ``"x"`` at the top level and left
+    out of the traces (the page puts them back before drawing): it halves the payload.
+    """
+    fig = diagram_figure(result, design, load_case=load_case, system=system)
+    x = fig["data"][0]["x"] if fig["data"] else []
+    for t in fig["data"]:
+        t.pop("x", None)
+    fig["x"] = x
+    s = json.dumps(fig, separators=(",", ":"), ensure_ascii=False)
     return s.replace("</", "<\\/")
 
 

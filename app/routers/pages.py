@@ -18,7 +18,7 @@ import json
 import logging
 import os
 import time
-from functools import lru_cache
+from collections import OrderedDict
 from pathlib import Path
 from typing import Any, Mapping
 
@@ -84,13 +84,22 @@ def demo_design() -> dict[str, Any]:
     return json.loads(json.dumps(_FALLBACK_DEMO))
 
 
-@lru_cache(maxsize=64)
-def _solve_cached(key: str) -> Any:
-    return engine.solve(json.loads(key))
+_CACHE: "OrderedDict[str, Any]" = OrderedDict()
+_CACHE_SIZE = 64
 
 
 def _solve(design: engine.Design) -> Any:
-    return _solve_cached(design.model_dump_json())
+    """engine.solve, remembering the last few results (a load-case switch re-solves nothing)."""
+    key = design.model_dump_json()
+    hit = _CACHE.get(key)
+    if hit is not None:
+        _CACHE.move_to_end(key)
+        return hit
+    result = engine.solve(design)
+    _CACHE[key] = result
+    if len(_CACHE) > _CACHE_SIZE:
+        _CACHE.popitem(last=False)
+    return result
 
 
 def solve_form(form: Mapping[str, str]) -> dict[str, Any]:

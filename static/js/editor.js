@@ -12,6 +12,7 @@
     if (!el || !target || !window.Plotly) return;
     var fig; try { fig = JSON.parse(el.textContent); } catch (e) { return; }
     if (!fig) return;
+    if (fig.x) fig.data.forEach(function (t) { if (!t.x) t.x = fig.x; });
     window.Plotly.react(target, fig.data, fig.layout, {displaylogo: false, responsive: true,
       modeBarButtonsToRemove: ["lasso2d", "select2d"]});
   }
