@@ -41,15 +41,15 @@ def _unavailable(why: str) -> None:
 
 
 def start_server(env_extra: dict[str, str] | None = None, *, timeout_s: float = 30.0):
-    """Start uvicorn on a free loopback port; return (process, base_url). Used by fixtures and
-    the benchmark."""
+    """Start the app as ``shaftwright serve`` does (``app.server.run``: uvicorn) on a free
+    loopback port; return (process, base_url). Used by the fixtures and the benchmark."""
     port = _free_port()
     env = dict(os.environ)
     env.update(env_extra or {})
     env["PYTHONPATH"] = str(ROOT) + os.pathsep + env.get("PYTHONPATH", "")
     proc = subprocess.Popen(
-        [sys.executable, "-m", "uvicorn", "app.main:create_app", "--factory", "--host", "127.0.0.1",
-         "--port", str(port), "--log-level", "warning", "--no-access-log"],
+        [sys.executable, "-m", "app.server", "--host", "127.0.0.1", "--port", str(port),
+         "--log-level", "warning"],
         cwd=str(ROOT), env=env, stdout=subprocess.PIPE, stderr=subprocess.STDOUT)
     url = f"http://127.0.0.1:{port}"
     deadline = time.monotonic() + timeout_s
