@@ -176,3 +176,48 @@ def test_reload_keeps_working_copy(page, live_server):
     page.wait_for_selector("html[data-ready='1']")
     page.wait_for_function("document.querySelector(\"[name='name']\").value === 'my own countershaft'")
     page.locator("#restored").wait_for(state="visible")
+
+
+def test_change_kind_remove_and_reorder_rows(page, live_server, artifacts):
+    _open(page, live_server)
+    i = _first_gear(page)
+    eid = page.locator(f"[name='elements[{i}].id']").input_value()
+    page.select_option(f"[name='elements[{i}].kind']", "force")
+    page.wait_for_selector(f"[name='elements[{i}].Fy_N']")
+    assert page.locator(f"[name='elements[{i}].pitch_d_mm']").count() == 0
+    assert page.locator(f"[name='elements[{i}].id']").input_value() == eid
+    _wait_fresh(page)
+    # reorder the load cases, then remove the last one: the duty cycle no longer sums to 1
+    first = page.locator("[name='load_cases[0].name']").input_value()
+    page.locator("#op-down-load_cases-0").click()
+    page.wait_for_function("(n) => document.querySelector(\"[name='load_cases[1].name']\").value === n", arg=first)
+    n = page.locator("[name$='].speed_rpm']").count()
+    page.locator(f"#op-remove-load_cases-{n - 1}").click()
+    page.wait_for_function(f"document.querySelectorAll(\"[name$='].speed_rpm']\").length === {n - 1}")
+    if n > 2:  # fractions no longer sum to one: message at the duty-cycle section, results kept
+        page.wait_for_selector("#m-sec-load_cases:not(:empty)")
+        assert "sum" in page.locator("#m-sec-load_cases").inner_text()
+        assert page.locator("#status[data-state='stale']").count() == 1
+    page.screenshot(path=str(artifacts / "06-rows-edited.png"), full_page=True)
+
+
+def test_load_case_selector_redraws_for_that_case(page, live_server):
+    _open(page, live_server)
+    names = page.locator("#view-case option").all_inner_texts()
+    assert len(names) >= 2, "the demo design has several load cases"
+    page.select_option("#view-case", names[-1])
+    page.wait_for_function("(n) => document.getElementById('plot').layout.meta.load_case === n", arg=names[-1])
+    assert names[-1] in page.locator("#drawing svg").text_content()
+
+
+def test_keyboard_only_add_part(page, live_server):
+    _open(page, live_server)
+    page.focus("#add-kind")
+    page.select_option("#add-kind", "coupling")
+    page.keyboard.press("Tab")
+    assert page.evaluate("document.activeElement.id") == "op-add-elements"
+    page.keyboard.press("Enter")
+    page.wait_for_function("document.activeElement && /^elements\\[\\d+\\]\\.x_mm$/.test(document.activeElement.name)")
+    name = page.evaluate("document.activeElement.name")
+    idx = name.split("[")[1].split("]")[0]
+    assert page.locator(f"[name='elements[{idx}].kind']").input_value() == "coupling"
