@@ -157,18 +157,20 @@ def _build_sections(a, M_node: np.ndarray):
         secs[i]["labels"].append(label)
         secs[i]["kind"] = secs[i]["kind"] or kind
 
-    for i in range(1, len(shaft.segments)):
-        s0, s1 = shaft.segments[i - 1], shaft.segments[i]
-        if abs(s0.d_mm - s1.d_mm) < _EPS:
-            continue
-        k = section(node_at(edges[i]))
-        D, d = max(s0.d_mm, s1.d_mm), min(s0.d_mm, s1.d_mm)
-        r = s1.fillet_r_mm if s1.fillet_r_mm is not None else strength.SHARP_FILLET_R_OVER_D * d
-        kt = tuple(float(strength.kt_shoulder(D_mm=D, d_mm=d, r_mm=r, load=ld))
-                   for ld in ("bending", "torsion", "axial"))
-        rz.add(k, kt, r)
-        note = f"r {r:g} mm" if s1.fillet_r_mm is not None else f"r {r:.2g} mm assumed"
-        tag(k, "shoulder", f"shoulder {D:g}/{d:g} mm, {note}")
+    steps = [(i, s0, s1) for i, (s0, s1) in enumerate(zip(shaft.segments[:-1], shaft.segments[1:]), start=1)
+             if abs(s0.d_mm - s1.d_mm) >= _EPS]
+    if steps:
+        D = np.array([max(s0.d_mm, s1.d_mm) for _, s0, s1 in steps])
+        d = np.array([min(s0.d_mm, s1.d_mm) for _, s0, s1 in steps])
+        r = np.array([s1.fillet_r_mm if s1.fillet_r_mm is not None else strength.SHARP_FILLET_R_OVER_D * dd
+                      for (_, _, s1), dd in zip(steps, d)])
+        kts = np.stack([strength.kt_shoulder(D_mm=D, d_mm=d, r_mm=r, load=ld)
+                        for ld in ("bending", "torsion", "axial")], axis=1)
+        for (i, _, s1), Di, di, ri, kt in zip(steps, D, d, r, kts):
+            k = section(node_at(edges[i]))
+            rz.add(k, tuple(float(v) for v in kt), float(ri))
+            note = f"r {ri:g} mm" if s1.fillet_r_mm is not None else f"r {ri:.2g} mm assumed"
+            tag(k, "shoulder", f"shoulder {Di:g}/{di:g} mm, {note}")
 
     for e, node in zip(design.elements, mesh.element_nodes):
         k = section(int(node))

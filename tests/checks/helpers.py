@@ -4,17 +4,18 @@ from __future__ import annotations
 import numpy as np
 
 from engine.beam import axial_and_torque
+from engine.bearings import rate_bearings
 from engine.model import parse_design
-from engine.solve import _locating_split, _weight_density, analyse
+from engine.solve import _weight_density, analyse
 
 
 def analysis_of(data):
     """Analysis after the axial resolution: the same steps as engine.solve.solve()."""
     design = parse_design(data)
     a = analyse(design)
-    _, Fx = _locating_split(design, a.Fa_ext_N)
+    Fx = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N).split.Fx_N
     Fx_loads = np.hstack([np.array([cl.F_N[:, 0] for cl in a.loads]), Fx])
-    x_loads = np.concatenate([a.loads[0].x_mm, [s.x_mm for s in design.supports]])
+    x_loads = np.concatenate([a.loads[0].x_mm if a.loads else [], [s.x_mm for s in design.supports]])
     T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
     a.N_N, a.T_Nmm = axial_and_torque(a.mesh, x_loads, Fx_loads, T_loads, _weight_density(design, a.loads)[:, 0])
     return a
