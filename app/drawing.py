@@ -274,7 +274,7 @@ def shaft_svg(design: Any, result: Any = None, *, width_px: int = 900, load_case
                 out.append(f'<text class="sd-txt" x="{x:.1f}" y="{y_tip - 6:.1f}" text-anchor="middle">{escape(f.id)}</text>')
             if abs(f.Fx_N) > 1e-6 * max(fmax, 1):
                 sgn = 1 if f.Fx_N > 0 else -1
-                ya = cy - R(dia_at(f.x_mm) / 2) - 10
+                ya = cy + max(R(reach_mm), R(dia_at(f.x_mm) / 2)) + 12  # under the part, clear of it
                 out.append(f'<g class="sd-load">{_arrow(x - sgn * 26, ya, x - sgn * 2, ya, "sd-a", 5)}</g>')
                 out.append(f'<text class="sd-val" x="{x - sgn * 30:.1f}" y="{ya + 3:.1f}" text-anchor="{"end" if sgn > 0 else "start"}">'
                            f'axial {units.fmt(abs(f.Fx_N), "force", system, n=3, unit=True)}</text>')

@@ -221,3 +221,10 @@ def test_keyboard_only_add_part(page, live_server):
     name = page.evaluate("document.activeElement.name")
     idx = name.split("[")[1].split("]")[0]
     assert page.locator(f"[name='elements[{idx}].kind']").input_value() == "coupling"
+
+
+def test_docs_page_loads_nothing_from_outside(page, live_server):
+    page.goto(live_server + "/docs")
+    assert "/api/solve" in page.content()
+    assert page.outside_requests == []
+    assert page.console_errors == []

@@ -50,3 +50,30 @@ def test_diagram_figure_has_all_panels_and_units():
     assert abs(max(abs(v) for v in tr["y"]) - m_si / 1.3558179483314004) < 1e-3 * m_si
     assert len(fig["layout"]["shapes"]) == len(d["supports"]) + len(d["elements"])
     assert "</" not in plots.diagram_json(res, d)
+
+
+def test_every_part_kind_and_bearing_type_draws():
+    from app import web
+    from engine.model import BEARING_TYPES
+
+    d = demo_design()
+    form = web.design_to_form(d)
+    for kind in web.ELEMENT_FIELDS:
+        form, _ = web.apply_op(form, f"add:elements:{kind}")
+    for _ in BEARING_TYPES:
+        form, _ = web.apply_op(form, "add:supports")
+    n0 = len(d["supports"])
+    L = sum(s["length_mm"] for s in d["shaft"]["segments"])
+    for j, bt in enumerate(list(BEARING_TYPES) + [""]):
+        if n0 + j < n0 + len(BEARING_TYPES):
+            form[f"supports[{n0 + j}].bearing_type"] = bt
+            form[f"supports[{n0 + j}].x_mm"] = f"{5 + 3 * j:g}"
+    data, issues = web.form_to_design(form)
+    assert issues == []
+    svg = drawing.shaft_svg(data, None)
+    xml.dom.minidom.parseString(svg)
+    for i in range(len(data["elements"])):
+        assert f'href="#row-elements-{i}"' in svg
+    for i in range(len(data["supports"])):
+        assert f'href="#row-supports-{i}"' in svg
+    assert L > 0
