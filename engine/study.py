@@ -571,8 +571,24 @@ def _message(exc: DesignError) -> str:
     return "; ".join(f"{e.path}: {e.message}" if e.path else e.message for e in exc.errors)
 
 
-def run_study(design: Any, study: Study | Sequence[Any]) -> StudyResult:
+class _Subset:
+    """The combinations of a study restricted to some variant indices (for the batched path)."""
+
+    def __init__(self, study: Study, ks: list[int]):
+        self._all, self._ks = study.combinations(), ks
+
+    def combinations(self) -> list[tuple]:
+        return [self._all[k] for k in self._ks]
+
+
+def run_study(design: Any, study: Study | Sequence[Any], *,
+              method: Literal["auto", "solve", "batched"] = "auto") -> StudyResult:
     """Solve every variant of ``study`` (or of ``vary`` items, see :func:`parse_study`).
+
+    ``method``: ``solve`` calls :func:`engine.solve` for each variant; ``batched`` solves the
+    bending of all variants at once (:func:`batched_analyses`) and then rates the bearings
+    and checks the shaft of each as solve() does; ``auto`` (default) takes the batched path
+    when it reproduces the plain solve at the current design (to 1e-9), else ``solve``.
 
     A variant the engine refuses (e.g. a support moved onto another) carries the engine's
     message in ``error`` and no figures; the study itself goes on.
@@ -590,14 +606,41 @@ def run_study(design: Any, study: Study | Sequence[Any]) -> StudyResult:
     base_values = tuple(v.current for v in study.variables)
     base = figures_of(design, base_result, held=held, values=base_values)
     data = design.model_dump(mode="json", exclude_none=False)
-    variants = []
-    for vals in study.combinations():
+    variants: list[VariantFigures | None] = [None] * study.n_variants
+    designs: list[tuple[int, Design]] = []
+    for k, vals in enumerate(study.combinations()):
         try:
-            vd = parse_design(apply_values(data, study, vals))
-            res = engine.solve(vd, diagrams=False)
-            variants.append(figures_of(vd, res, held=held, values=vals))
+            designs.append((k, parse_design(apply_values(data, study, vals))))
         except DesignError as exc:
-            variants.append(VariantFigures(values=vals, error=_message(exc), ok=False))
+            variants[k] = VariantFigures(values=vals, error=_message(exc), ok=False)
+    used = "solve"
+    if method in ("auto", "batched") and designs:
+        # the batched path is used when it reproduces the plain solve at the current design
+        try:
+            check = _batched_figures([design], Study(variables=study.variables, values=tuple((v,) for v in base_values)),
+                                     held, None)[0]
+            agrees = isinstance(check, VariantFigures) and _same(check, base)
+        except Exception:  # a layer not wired as the batched path expects: fall back
+            agrees = False
+        if agrees or method == "batched":
+            used = "batched"
+            sub = Study(variables=study.variables, values=study.values)
+            base_loads = None
+            if _loads_unchanged(study):
+                from engine.loads import case_loads
+                base_loads = [case_loads(design, c) for c in design.load_cases]
+            figs = _batched_figures([d for _, d in designs], _Subset(sub, [k for k, _ in designs]), held, base_loads)
+            for (k, _), f in zip(designs, figs):
+                variants[k] = (f.model_copy(update={"values": study.combinations()[k]}) if isinstance(f, VariantFigures)
+                               else VariantFigures(values=study.combinations()[k], error=_message(f), ok=False))
+    if used == "solve":
+        for k, vd in designs:
+            vals = study.combinations()[k]
+            try:
+                res = engine.solve(vd, diagrams=False)
+                variants[k] = figures_of(vd, res, held=held, values=vals)
+            except DesignError as exc:
+                variants[k] = VariantFigures(values=vals, error=_message(exc), ok=False)
     req = design.requirements
     return StudyResult(
         variables=study.variables, values=study.values, shape=study.shape, base=base,
@@ -605,7 +648,7 @@ def run_study(design: Any, study: Study | Sequence[Any]) -> StudyResult:
         requirements={"life_h": req.life_h, "s0_min": req.s0_min,
                       "fatigue_safety_min": req.fatigue_safety_min,
                       "critical_speed_margin_pct": req.critical_speed_margin_pct},
-        elapsed_s=time.perf_counter() - t0, method="solve")
+        elapsed_s=time.perf_counter() - t0, method=used)
 
 
 # --- arrangement comparison -------------------------------------------------------------------
@@ -887,3 +930,79 @@ def batched_analyses(designs: Sequence[Design], *, loads: Sequence[Any] | None =
         Fa_ext = np.array([cl.F_N[:, 0].sum() for cl in ls]) + w[:, 0] * volume
         out.append(Analysis(d, mesh, ls, beam, Fr, Fa_ext, np.empty(0), np.empty(0)))
     return out
+
+
+# --- the batched study path ---------------------------------------------------------------------
+
+def _mirror_result(design: Design, a: Any) -> Any:
+    """The parts of :func:`engine.solve`'s Result that the figures use, from an Analysis
+    (bearings rated, axial force and torque along x, shaft checks), as solve() makes them."""
+    from types import SimpleNamespace
+
+    from engine.beam import axial_and_torque
+    from engine.bearings import rate_bearings
+    from engine.checks import shaft_checks
+    from engine.solve import _weight_density
+
+    outcome = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N)
+    Fx = outcome.split.Fx_N
+    Fx_loads = np.hstack([np.array([cl.F_N[:, 0] for cl in a.loads]), Fx])
+    x_loads = np.concatenate([a.loads[0].x_mm if a.loads else [], [s.x_mm for s in design.supports]])
+    T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
+    a.N_N, a.T_Nmm = axial_and_torque(a.mesh, x_loads, Fx_loads, T_loads,
+                                      _weight_density(design, a.loads)[:, 0])
+    sc = shaft_checks(a)
+    shaft = SimpleNamespace(min_safety_factor=sc.min_safety_factor, critical_speed_rpm=sc.critical_speed_rpm)
+    cases = [SimpleNamespace(speed_rpm=c.speed_rpm) for c in design.load_cases]
+    return SimpleNamespace(bearings=outcome.bearings, checks=list(outcome.checks) + list(sc.checks),
+                           shaft=shaft, load_cases=cases)
+
+
+def _loads_unchanged(study: Study) -> bool:
+    """True when no variable changes an element's loads (positions of supports and elements,
+    segment sizes, bearings): the base design's per-case loads serve every variant."""
+    for v in study.variables:
+        p = v.path
+        if p.startswith("elements.") and not p.endswith(".x_mm"):
+            return False
+    return True
+
+
+def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
+                     base_loads: list[Any] | None) -> list[VariantFigures | DesignError]:
+    from dataclasses import replace
+
+    loads = None
+    if base_loads is not None:
+        loads = []
+        for d in designs:
+            xs = np.array([e.x_mm for e in d.elements], dtype=float)
+            loads.append([replace(cl, x_mm=xs) for cl in base_loads])
+    out: list[VariantFigures | DesignError] = []
+    analyses = batched_analyses(designs, loads=loads)
+    for d, a, vals in zip(designs, analyses, study.combinations()):
+        try:
+            out.append(figures_of(d, _mirror_result(d, a), held=held, values=vals))
+        except DesignError as exc:
+            out.append(exc)
+    return out
+
+
+def _same(f: VariantFigures, g: VariantFigures, rtol: float = 1e-9) -> bool:
+    """Two variants' figures agree (numbers to ``rtol``)."""
+    def close(x, y):
+        if x is None or y is None:
+            return x is y
+        if isinstance(x, (int, float)) and isinstance(y, (int, float)):
+            return math.isclose(x, y, rel_tol=rtol, abs_tol=1e-12) or (math.isinf(x) and x == y)
+        return x == y
+    if f.ok != g.ok or f.failing != g.failing or len(f.bearings) != len(g.bearings):
+        return False
+    keys = ("min_life_h", "safety_factor", "max_slope_rad", "critical_speed_rpm")
+    if not all(close(getattr(f, k), getattr(g, k)) for k in keys):
+        return False
+    for b, c in zip(f.bearings, g.bearings):
+        for k in ("designation", "life_h", "L10_h", "s0", "ok", "slope_rad", "slope_limit_rad"):
+            if not close(getattr(b, k), getattr(c, k)):
+                return False
+    return True
