@@ -638,8 +638,39 @@ def read_form(form: Mapping[str, str]):
     try:
         design = parse_design(data)
     except DesignError as exc:
-        issues = issues + [i for i in exc.errors if i.path not in seen]
+        issues = issues + [_in_words(i, form) for i in exc.errors if i.path not in seen]
         return None, data, issues
     if issues:
         return None, data, issues
     return design, data, []
+
+
+_BOUND = re.compile(r"^'(\w+)' must be (greater than|at least|less than|at most) ([-+0-9.eE]+), got .*$")
+_KEYWORD = re.compile(r"^'(\w+)'")
+
+
+def _field_of(path: str, form: Mapping[str, str]) -> Field | None:
+    m = _IDX.match(path)
+    if m:
+        lp, i, key = m.group(1), m.group(2), m.group(3)
+        fields = {"shaft.segments": SEGMENT_FIELDS, "supports": SUPPORT_FIELDS, "load_cases": LOAD_CASE_FIELDS,
+                  "elements": ELEMENT_FIELDS.get(form.get(f"elements[{i}].kind", "gear"), _COMMON)}[lp]
+    else:
+        head, _, key = path.rpartition(".")
+        fields = {"": TOP_FIELDS, "shaft.material": MATERIAL_FIELDS, "requirements": REQUIREMENT_FIELDS}.get(head, ())
+    return next((f for f in fields if f.key == key), None)
+
+
+def _in_words(issue: Issue, form: Mapping[str, str]) -> Issue:
+    """The engine's message for a field, in the field's label and the display unit system:
+    "'x_mm' must be at least 0, got -5.0" becomes "position x must be at least 0 in, got “-0.2”"."""
+    f = _field_of(issue.path, form)
+    if f is None:
+        return issue
+    system = form.get("units", "si")
+    m = _BOUND.match(issue.message)
+    if m and f.kind == "number":
+        bound = units.fmt(float(m.group(3)), f.quantity, system, unit=True)
+        typed = form.get(issue.path, "").strip()
+        return Issue(path=issue.path, message=f"{f.label} must be {m.group(2)} {bound}, got “{typed}”")
+    return Issue(path=issue.path, message=_KEYWORD.sub(f.label, issue.message, count=1))

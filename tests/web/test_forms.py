@@ -98,3 +98,13 @@ def test_parse_number_forms():
         except ValueError:
             continue
         raise AssertionError(bad)
+
+
+def test_engine_messages_use_labels_and_display_units():
+    form = web.design_to_form(demo_design(), "us")
+    form["elements[0].pitch_d_mm"] = "-2"
+    form["requirements.reliability_pct"] = "80"
+    _, _, issues = web.read_form(form)
+    msgs = {i.path: i.message for i in issues}
+    assert msgs["elements[0].pitch_d_mm"] == "pitch diameter must be greater than 0\u202fin, got “-2”"
+    assert msgs["requirements.reliability_pct"] == "reliability must be at least 90%, got “80”"
