@@ -134,3 +134,17 @@ def test_generalized_eigen_against_numpy_direct():
     direct = np.sort(np.linalg.eigvals(np.linalg.solve(M, K)).real)
     assert np.allclose(lam, direct)
     assert np.allclose(phi.T @ M @ phi, np.eye(6), atol=1e-10)
+
+
+@pytest.mark.parametrize("overhang", [False, True])
+def test_subspace_iteration_matches_the_full_eigenproblem(overhang):
+    # the design's modes come from subspace iteration; the full Cholesky + eigh reduction is
+    # the reference (same matrices, so agreement to round-off is expected)
+    from engine.dynamics import dynamics_mesh, lateral_system, subspace_iteration
+    des = stepped(overhang)
+    K, M, free = lateral_system(des, dynamics_mesh(des))
+    K, M = K[np.ix_(free, free)], M[np.ix_(free, free)]
+    full, phi_full = generalized_eigen(K, M)
+    lam, phi = subspace_iteration(K, M, 3)
+    assert np.allclose(lam, full[:3], rtol=1e-9)
+    assert np.allclose(np.abs(phi.T @ M @ phi_full[:, :3]), np.eye(3), atol=1e-6)
