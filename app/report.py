@@ -53,10 +53,15 @@ def text_report(r: Result) -> str:
     out.append(f"\nShaft: length {s.length_mm:g} mm, mass {s.mass_kg:.3g} kg, largest deflection {s.max_deflection_mm:.4g} mm"
                + (f", first critical speed {s.critical_speed_rpm:,.0f} rpm" if s.critical_speed_rpm else ""))
     if r.checks:
+        sources: dict[str, int] = {}
+        for c in r.checks:
+            sources.setdefault(c.source, len(sources) + 1)
         out.append("\nChecks (failing first)")
         out.append(table(["status", "check", "where", "case", "value", "limit", "unit", "source"],
-                         [[c.status.upper(), c.code, c.where, c.load_case, c.value, c.limit, c.unit, c.source]
-                          for c in r.checks]))
+                         [[c.status.upper(), c.code, c.where, c.load_case, c.value, c.limit, c.unit,
+                           f"[{sources[c.source]}]"] for c in r.checks]))
+        out.append("\nSources")
+        out.extend(f"  [{n}] {src or 'no source given'}" for src, n in sources.items())
     for w in r.warnings:
         out.append(f"warning: {w}")
     out.append("\n" + CAUTION)

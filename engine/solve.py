@@ -13,9 +13,10 @@ from typing import Any
 import numpy as np
 
 import engine
+from engine.bearings import Catalogue, rate_bearings
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_mesh, solve_bending
 from engine.loads import CaseLoads, case_loads
-from engine.model import Design, EngineError, parse_design
+from engine.model import Design, parse_design
 from engine.result import (CaseResult, Diagrams, ElementForces, Result, ShaftSummary,
                            SupportReaction)
 
@@ -57,25 +58,6 @@ def analyse(design: Design) -> Analysis:
     return Analysis(design, mesh, loads, beam, Fr, Fa_ext, np.empty(0), np.empty(0))
 
 
-def _locating_split(design: Design, Fa_ext_N: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Axial reaction per support: the locating support ('both') takes the whole net axial
-    force; with a '+x'/'-x' pair, the one facing the push takes it. Returns (Fa ≥ 0, Fx signed)."""
-    nc, ns = Fa_ext_N.size, len(design.supports)
-    Fx = np.zeros((nc, ns))
-    for j, fa in enumerate(Fa_ext_N):
-        if abs(fa) < 1e-9:
-            continue
-        want = "+x" if fa > 0 else "-x"
-        idx = [i for i, s in enumerate(design.supports) if s.axial in ("both", want)]
-        if not idx:
-            raise EngineError.at(
-                "supports", f"in load case '{design.load_cases[j].name}' the shaft is pushed toward {want} "
-                f"with {abs(fa):.4g} N but no support takes axial force that way; set one support's "
-                f"'axial' to 'both' or '{want}'")
-        Fx[j, idx[0]] = -fa
-    return np.abs(Fx), Fx
-
-
 def _diagrams(a: Analysis) -> Diagrams:
     m, b = a.mesh, a.beam
     x = np.stack([m.x_mm[:-1], m.x_mm[1:]], axis=1).ravel()
@@ -97,17 +79,19 @@ def _diagrams(a: Analysis) -> Diagrams:
     return Diagrams(x_mm=x.tolist(), load_cases=out)
 
 
-def solve(design_data: Any, *, diagrams: bool = True) -> Result:
+def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | None = None) -> Result:
     """Solve a design document (mapping or :class:`Design`) and return the :class:`Result`.
 
-    ``diagrams=False`` leaves the along-x arrays empty (for studies of many variants).
+    ``diagrams=False`` leaves the along-x arrays empty (for studies of many variants);
+    ``catalogue`` is a bearing table of the user's (default: the bundled illustrative one).
 
     Raises :class:`engine.model.DesignError` (bad input) or :class:`EngineError` (a design
     that cannot be solved as laid out), each listing the key paths at fault.
     """
     design = parse_design(design_data)
     a = analyse(design)
-    Fa, Fx = _locating_split(design, a.Fa_ext_N)
+    rated = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N, catalogue=catalogue)
+    Fa, Fx = rated.split.Fa_N, rated.split.Fx_N
     Fx_loads = np.hstack([np.array([cl.F_N[:, 0] for cl in a.loads]), Fx])
     x_loads = np.concatenate([a.loads[0].x_mm if a.loads else [], [s.x_mm for s in design.supports]])
     T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
@@ -130,7 +114,8 @@ def solve(design_data: Any, *, diagrams: bool = True) -> Result:
         ))
     mass = float(np.sum(a.mesh.A_mm2 * a.mesh.le_mm)) * design.shaft.material.density_kg_m3 * 1e-9
     return Result(
-        engine_version=engine.__version__, load_cases=cases,
+        engine_version=engine.__version__, load_cases=cases, bearings=rated.bearings,
+        checks=rated.checks, warnings=rated.warnings,
         shaft=ShaftSummary(max_deflection_mm=float(u_res.max()), mass_kg=mass, length_mm=design.shaft.length_mm),
         diagrams=_diagrams(a) if diagrams else Diagrams(x_mm=[], load_cases={}),
     )

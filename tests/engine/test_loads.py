@@ -142,4 +142,4 @@ def test_axial_force_that_no_support_takes_is_an_error(countershaft):
     with pytest.raises(engine.EngineError) as exc:
         engine.solve(countershaft)
     (issue,) = exc.value.errors
-    assert issue.path == "supports" and "toward +x" in issue.message and "'axial'" in issue.message
+    assert issue.path == "supports" and "toward +x" in issue.message and "'both'" in issue.message
