@@ -494,17 +494,13 @@ class StudyResult(_Frozen):
         return [getattr(v, name) for v in self.variants]
 
 
-_CANDIDATE_CHECKS = ("life", "static", "speed", "s0")  # verdicts that depend on the picked row
-
-
-def _is_candidate_check(code: str) -> bool:
-    return code.startswith("bearing.") and any(w in code for w in _CANDIDATE_CHECKS) and "slope" not in code
+_SLOPE_CODES = ("shaft.bearing_slope",)  # engine/stiffness.py: slope at each bearing, where = support id
 
 
 def _slopes_from_checks(result: Result) -> dict[str, tuple[float, float | None]]:
     out: dict[str, tuple[float, float | None]] = {}
     for c in result.checks:
-        if "slope" in c.code and c.code.startswith("bearing.") and c.value is not None:
+        if c.code in _SLOPE_CODES and c.value is not None:
             prev = out.get(c.where)
             if prev is None or c.value > prev[0]:
                 out[c.where] = (float(c.value), c.limit)
@@ -551,8 +547,15 @@ def figures_of(design: Design, result: Result, *, held: dict[str, str] | None = 
             id=br.id, bearing_type=br.bearing_type, designation=pick.designation,
             life_h=pick.Lnm_h, L10_h=pick.L10_h, s0=pick.s0, ok=pick.ok, reselected=reselected,
             slope_rad=slope, slope_limit_rad=limit))
+    # the held bearings' own verdicts replace the bearing layer's (which judge its first pick)
     failing = [f"{c.code}" + (f" ({c.where})" if c.where else "") for c in result.checks
-               if c.status == "fail" and not _is_candidate_check(c.code)]
+               if c.status == "fail" and not c.code.startswith("bearing.")]
+    for br, b in zip(result.bearings, bearings):
+        if b.ok is False:
+            pick = next((c for c in br.candidates if c.designation == b.designation), None)
+            words = [w for w in ("life", "static", "speed")
+                     if pick is not None and any(r.startswith(w) for r in pick.reasons)] or ["seat"]
+            failing += [f"bearing.{w} ({b.id})" for w in words]
     lives = [b.life_h for b in bearings if b.life_h is not None]
     sl = [b.slope_rad for b in bearings if b.slope_rad is not None]
     return VariantFigures(
@@ -629,7 +632,9 @@ def run_study(design: Any, study: Study | Sequence[Any], *,
             if _loads_unchanged(study):
                 from engine.loads import case_loads
                 base_loads = [case_loads(design, c) for c in design.load_cases]
-            figs = _batched_figures([d for _, d in designs], _Subset(sub, [k for k, _ in designs]), held, base_loads)
+            fast_b = not any(v.kind == "choice" for v in study.variables)
+            figs = _batched_figures([d for _, d in designs], _Subset(sub, [k for k, _ in designs]), held, base_loads,
+                                    fast_bearings=fast_b)
             for (k, _), f in zip(designs, figs):
                 variants[k] = (f.model_copy(update={"values": study.combinations()[k]}) if isinstance(f, VariantFigures)
                                else VariantFigures(values=study.combinations()[k], error=_message(f), ok=False))
@@ -934,7 +939,86 @@ def batched_analyses(designs: Sequence[Design], *, loads: Sequence[Any] | None =
 
 # --- the batched study path ---------------------------------------------------------------------
 
-def _mirror_result(design: Design, a: Any) -> Any:
+class _HeldRating:
+    """Rates only the bearings held by a study (one catalogue row per support) with the bearing
+    layer's own screening (engine.bearings.candidates.screen_rows), for variants whose
+    arrangement has no induced axial forces (no angular contact or tapered bearing): there the
+    axial split does not depend on the rows, and a row's figures do not depend on the others,
+    so the held row's life, static safety and verdict are those of the full rating.
+    ``rate`` returns None when it does not apply (the caller then runs the full rating).
+    """
+
+    def __init__(self, design: Design, held: dict[str, str]):
+        from engine.bearings import bundled_catalogue
+        from engine.bearings.equivalent import INDUCED_TYPES
+        from engine.bearings.life import WEIBULL_B, WEIBULL_THETA, WEIBULL_X0, a1_iso, weibull_factor
+        from engine.bearings.lubrication import viscosity_at
+
+        self.ok = not any(s.bearing_type in INDUCED_TYPES for s in design.supports)
+        self.cat = cat = bundled_catalogue()
+        req = design.requirements
+        if req.reliability_method == "weibull":
+            self.a_R = float(weibull_factor(req.reliability_pct, x0=getattr(req, "weibull_x0", WEIBULL_X0),
+                                            theta=getattr(req, "weibull_theta", WEIBULL_THETA),
+                                            b=getattr(req, "weibull_b", WEIBULL_B)))
+        else:
+            self.a_R = float(a1_iso(req.reliability_pct))
+        self.ec = req.contamination_ec
+        self.nu = None
+        if req.lubricant is not None and self.ec is not None:
+            lub = req.lubricant
+            try:
+                self.nu = float(viscosity_at(lub.operating_temp_C, iso_vg=lub.iso_vg,
+                                             viscosity_index=lub.viscosity_index))
+            except ValueError:
+                self.ok = False
+        self.rows: dict[str, int] = {}
+        for s in design.supports:
+            name = held.get(s.id)
+            if s.bearing_type is None:
+                continue
+            hit = np.flatnonzero((cat.designation == name) & (cat.bearing_type == s.bearing_type)) if name else []
+            if len(hit) != 1:
+                self.ok = False
+            else:
+                self.rows[s.id] = int(hit[0])
+
+    def rate(self, design: Design, a: Any) -> tuple[Any, list[Any]] | None:
+        from types import SimpleNamespace
+
+        from engine.bearings.axial import resolve_axial
+        from engine.bearings.candidates import LIFE_CAP_H, screen_rows
+
+        if not self.ok:
+            return None
+        cat, req = self.cat, design.requirements
+        split = resolve_axial(design, a.Fr_N, a.Fa_ext_N, induced_ratios=np.zeros(len(design.supports)))
+        n = np.array([c.speed_rpm for c in design.load_cases], float)
+        t = np.array([c.time_fraction for c in design.load_cases], float)
+        out = []
+        for i, s in enumerate(design.supports):
+            if s.bearing_type is None:
+                continue
+            r = self.rows.get(s.id)
+            bore = float(s.bore_mm if s.bore_mm is not None else design.shaft.diameter_at(s.x_mm))
+            if r is None or abs(cat.d_mm[r] - bore) >= 0.01 or s.contact_angle_deg is not None \
+                    or (s.dimension_series and cat.series[r] not in s.dimension_series):
+                return None  # the held row no longer fits: the full rating re-selects
+            sc = screen_rows(cat, np.array([r]), bearing_type=s.bearing_type, Fr_N=a.Fr_N[:, i],
+                             Fa_N=split.Fa_N[:, i][None, :], speed_rpm=n, time_fraction=t,
+                             life_h=req.life_h, a_R=self.a_R, s0_min=req.s0_min,
+                             application_factor=float(req.application_factor), paired=False,
+                             nu_mm2_s=self.nu, ec=self.ec)
+            reasons = [w for w, flag in (("life", sc.life_ok[0]), ("static", sc.static_ok[0]),
+                                          ("speed", sc.speed_ok[0])) if not flag]
+            cand = SimpleNamespace(designation=str(cat.designation[r]), Lnm_h=float(sc.Lnm_h[0]),
+                                   L10_h=float(sc.L10_h[0]), s0=float(min(sc.s0[0], LIFE_CAP_H)),
+                                   ok=bool(sc.ok[0]), reasons=reasons)
+            out.append(SimpleNamespace(id=s.id, bearing_type=s.bearing_type, candidates=[cand]))
+        return split, out
+
+
+def _mirror_result(design: Design, a: Any, held_rating: _HeldRating | None = None) -> Any:
     """The parts of :func:`engine.solve`'s Result that the figures use, from an Analysis
     (bearings rated, axial force and torque along x, shaft checks), as solve() makes them."""
     from types import SimpleNamespace
@@ -944,8 +1028,13 @@ def _mirror_result(design: Design, a: Any) -> Any:
     from engine.checks import shaft_checks
     from engine.solve import _weight_density
 
-    outcome = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N)
-    Fx = outcome.split.Fx_N
+    fast = held_rating.rate(design, a) if held_rating is not None else None
+    if fast is None:
+        outcome = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N)
+        split, bearings, bchecks = outcome.split, outcome.bearings, list(outcome.checks)
+    else:
+        (split, bearings), bchecks = fast, []
+    Fx = split.Fx_N
     Fx_loads = np.hstack([np.array([cl.F_N[:, 0] for cl in a.loads]), Fx])
     x_loads = np.concatenate([a.loads[0].x_mm if a.loads else [], [s.x_mm for s in design.supports]])
     T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
@@ -954,8 +1043,7 @@ def _mirror_result(design: Design, a: Any) -> Any:
     sc = shaft_checks(a)
     shaft = SimpleNamespace(min_safety_factor=sc.min_safety_factor, critical_speed_rpm=sc.critical_speed_rpm)
     cases = [SimpleNamespace(speed_rpm=c.speed_rpm) for c in design.load_cases]
-    return SimpleNamespace(bearings=outcome.bearings, checks=list(outcome.checks) + list(sc.checks),
-                           shaft=shaft, load_cases=cases)
+    return SimpleNamespace(bearings=bearings, checks=bchecks + list(sc.checks), shaft=shaft, load_cases=cases)
 
 
 def _loads_unchanged(study: Study) -> bool:
@@ -969,7 +1057,7 @@ def _loads_unchanged(study: Study) -> bool:
 
 
 def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
-                     base_loads: list[Any] | None) -> list[VariantFigures | DesignError]:
+                     base_loads: list[Any] | None, *, fast_bearings: bool = False) -> list[VariantFigures | DesignError]:
     from dataclasses import replace
 
     loads = None
@@ -980,9 +1068,10 @@ def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
             loads.append([replace(cl, x_mm=xs) for cl in base_loads])
     out: list[VariantFigures | DesignError] = []
     analyses = batched_analyses(designs, loads=loads)
+    rating = _HeldRating(designs[0], held) if fast_bearings and designs else None
     for d, a, vals in zip(designs, analyses, study.combinations()):
         try:
-            out.append(figures_of(d, _mirror_result(d, a), held=held, values=vals))
+            out.append(figures_of(d, _mirror_result(d, a, rating), held=held, values=vals))
         except DesignError as exc:
             out.append(exc)
     return out

@@ -29,7 +29,7 @@ import engine  # noqa: E402
 from engine.study import run_study  # noqa: E402
 
 TARGET_S = 0.5
-VARY = ["supports.B.x_mm=200:268:200"]
+VARY = ["supports.B.x_mm=242:268:200"]  # B slides along its 40 mm seat (240–270 mm)
 
 
 def main() -> int:
