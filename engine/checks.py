@@ -96,6 +96,14 @@ class ShaftCheckOutcome:
     min_safety_factor: float | None
     sections: list[Section] = field(default_factory=list)
 
+    def summary(self) -> dict:
+        """The keys of :class:`engine.result.ShaftSummary` this outcome fills:
+        ``ShaftSummary(max_deflection_mm=…, mass_kg=…, length_mm=…, **outcome.summary())``."""
+        return {"critical_speed_rpm": self.critical_speed_rpm,
+                "natural_frequencies_rpm": list(self.natural_frequencies_rpm),
+                "rayleigh_rpm": self.rayleigh_rpm, "torsional_rpm": self.torsional_rpm,
+                "min_safety_factor": self.min_safety_factor}
+
 
 # --- sections ---------------------------------------------------------------------------------
 

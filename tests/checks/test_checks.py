@@ -155,3 +155,10 @@ def test_section_is_plain_data(out):
     d = dataclasses.asdict(s)
     assert {"x_mm", "kind", "d_mm", "Kt", "Kts", "Kf", "Kfs", "sigma_a_MPa", "tau_m_MPa", "n_fatigue",
             "n_yield", "d_min_mm", "load_case"} <= set(d)
+
+
+def test_summary_fills_the_result_model(out):
+    from engine.result import ShaftSummary
+    s = ShaftSummary(max_deflection_mm=0.01, **out.summary())
+    assert s.critical_speed_rpm == out.critical_speed_rpm and len(s.natural_frequencies_rpm) == 3
+    assert s.min_safety_factor == out.min_safety_factor and s.torsional_rpm == out.torsional_rpm
