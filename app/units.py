@@ -74,6 +74,9 @@ _UNIT_TO_QUANTITY = {"mm": "length", "N": "force", "N·m": "moment", "Nm": "mome
                      "GPa": "modulus", "h": "time", "rad": "slope", "%": "percent"}
 
 
+_SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+
+
 def _q(quantity: str) -> Quantity:
     return QUANTITIES.get(quantity) or QUANTITIES["ratio"]
 
@@ -136,6 +139,9 @@ def fmt(value_si: float | None, quantity: str = "ratio", system: str = "si", *,
         return "–"
     v = to_display(value_si, quantity, system)
     s = _text(v, n or _q(quantity).sig)
+    if "e" in s:  # 5.597e+08 -> 5.597×10⁸
+        mant, _, exp = s.partition("e")
+        s = mant + "×10" + str(int(exp)).translate(_SUPERSCRIPT)
     if s.startswith("-"):
         s = "−" + s[1:]  # a true minus sign
     if unit:
