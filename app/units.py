@@ -123,7 +123,10 @@ def _text(value: float, n: int) -> str:
         return "0"
     a = abs(v)
     if a >= 1e7 or a < 1e-5:
-        return f"{v:.{n - 1}e}"
+        mant, _, exp = f"{v:.{n - 1}e}".partition("e")
+        if "." in mant:
+            mant = mant.rstrip("0").rstrip(".")
+        return f"{mant}e{exp}"
     digits = max(0, n - 1 - int(math.floor(math.log10(a))))
     s = f"{v:.{digits}f}"
     if "." in s:

@@ -33,7 +33,7 @@ def test_significant_figures():
     assert units.fmt(0.012345, "length") == "0.01235"
     assert units.fmt(-42.0, "moment", unit=True) == "\u221242\u202fN·m"
     assert units.fmt(None) == "–"
-    assert units.fmt(2.5e-7, "slope") == "2.500×10⁻⁷"
+    assert units.fmt(2.5e-7, "slope") == "2.5×10⁻⁷"
     assert units.fmt(5.597e8, "time") == "5.597×10⁸"
     assert units.fmt_input(2.5e-7, "slope") == "2.5e-07"  # inputs stay parseable
     assert units.fmt(25.4, "length", "us", unit=True) == "1\u202fin"
