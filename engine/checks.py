@@ -39,7 +39,7 @@ import numpy as np
 from engine import dynamics, stiffness, strength
 from engine.result import Check
 
-__all__ = ["Section", "ShaftCheckOutcome", "shaft_checks", "CRITICAL_SPEED_SOURCE"]
+__all__ = ["Section", "ShaftCheckOutcome", "shaft_checks", "sort_checks", "CRITICAL_SPEED_SOURCE"]
 
 CRITICAL_SPEED_SOURCE = ("common practice: run at least the margin below the first lateral "
                          "critical speed (memory: Shigley 9th ed. §7-6 asks for a generous margin)")
@@ -363,10 +363,17 @@ def shaft_checks(a) -> ShaftCheckOutcome:
                                     element_nodes=mesh.element_nodes)
 
     # dynamics ------------------------------------------------------------------------------
-    modes = dynamics.lateral_frequencies(design, n_modes=3)
-    freqs = [float(v) for v in modes.rpm]
+    try:
+        modes = dynamics.lateral_frequencies(design, n_modes=3)
+        freqs = [float(v) for v in modes.rpm if np.isfinite(v)]
+        rayleigh = dynamics.rayleigh_frequency(modes) if freqs else None
+    except np.linalg.LinAlgError:
+        freqs, rayleigh = [], None
+        checks.append(Check(code="shaft.critical_speed", status="warn", where="shaft",
+                            message="the natural frequencies could not be computed for this support "
+                                    "layout (the shaft is not held against rigid-body motion)",
+                            source=CRITICAL_SPEED_SOURCE))
     n_c = freqs[0] if freqs else None
-    rayleigh = dynamics.rayleigh_frequency(modes) if freqs else None
     torsional = dynamics.torsional_frequency(design, mesh)
     if n_c:
         m = req.critical_speed_margin_pct / 100.0
