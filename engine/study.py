@@ -574,6 +574,11 @@ def _message(exc: DesignError) -> str:
     return "; ".join(f"{e.path}: {e.message}" if e.path else e.message for e in exc.errors)
 
 
+def _cat(catalogue: Any) -> dict[str, Any]:
+    """``catalogue=`` for engine.solve only when a table is given (solve's default otherwise)."""
+    return {} if catalogue is None else {"catalogue": catalogue}
+
+
 class _Subset:
     """The combinations of a study restricted to some variant indices (for the batched path)."""
 
@@ -585,7 +590,7 @@ class _Subset:
 
 
 def run_study(design: Any, study: Study | Sequence[Any], *,
-              method: Literal["auto", "solve", "batched"] = "auto") -> StudyResult:
+              method: Literal["auto", "solve", "batched"] = "auto", catalogue: Any = None) -> StudyResult:
     """Solve every variant of ``study`` (or of ``vary`` items, see :func:`parse_study`).
 
     ``method``: ``solve`` calls :func:`engine.solve` for each variant; ``batched`` solves the
@@ -604,7 +609,7 @@ def run_study(design: Any, study: Study | Sequence[Any], *,
     design = parse_design(design)
     if not isinstance(study, Study):
         study = parse_study(design, study)
-    base_result = engine.solve(design, diagrams=False)
+    base_result = engine.solve(design, diagrams=False, **_cat(catalogue))
     held = _held(base_result)
     base_values = tuple(v.current for v in study.variables)
     base = figures_of(design, base_result, held=held, values=base_values)
@@ -621,7 +626,7 @@ def run_study(design: Any, study: Study | Sequence[Any], *,
         # the batched path is used when it reproduces the plain solve at the current design
         try:
             check = _batched_figures([design], Study(variables=study.variables, values=tuple((v,) for v in base_values)),
-                                     held, None)[0]
+                                     held, None, catalogue=catalogue)[0]
             agrees = isinstance(check, VariantFigures) and _same(check, base)
         except Exception:  # a layer not wired as the batched path expects: fall back
             agrees = False
@@ -634,7 +639,7 @@ def run_study(design: Any, study: Study | Sequence[Any], *,
                 base_loads = [case_loads(design, c) for c in design.load_cases]
             fast_b = not any(v.kind == "choice" for v in study.variables)
             figs = _batched_figures([d for _, d in designs], _Subset(sub, [k for k, _ in designs]), held, base_loads,
-                                    fast_bearings=fast_b)
+                                    fast_bearings=fast_b, catalogue=catalogue)
             for (k, _), f in zip(designs, figs):
                 variants[k] = (f.model_copy(update={"values": study.combinations()[k]}) if isinstance(f, VariantFigures)
                                else VariantFigures(values=study.combinations()[k], error=_message(f), ok=False))
@@ -642,7 +647,7 @@ def run_study(design: Any, study: Study | Sequence[Any], *,
         for k, vd in designs:
             vals = study.combinations()[k]
             try:
-                res = engine.solve(vd, diagrams=False)
+                res = engine.solve(vd, diagrams=False, **_cat(catalogue))
                 variants[k] = figures_of(vd, res, held=held, values=vals)
             except DesignError as exc:
                 variants[k] = VariantFigures(values=vals, error=_message(exc), ok=False)
@@ -696,12 +701,13 @@ class ArrangementComparison(_Frozen):
     elapsed_s: float = 0.0
 
 
-def _option(key: str, label: str, data: dict, *, current: bool, n_candidates: int) -> ArrangementOption:
+def _option(key: str, label: str, data: dict, *, current: bool, n_candidates: int,
+            catalogue: Any = None) -> ArrangementOption:
     import engine
 
     try:
         d = parse_design(data)
-        res = engine.solve(d, diagrams=False)
+        res = engine.solve(d, diagrams=False, **_cat(catalogue))
     except DesignError as exc:
         return ArrangementOption(key=key, label=label, error=_message(exc), current=current)
     fig = figures_of(d, res)
@@ -740,7 +746,7 @@ def _option(key: str, label: str, data: dict, *, current: bool, n_candidates: in
 
 
 def compare_arrangements(design: Any, *, keys: Iterable[str] | None = None,
-                         n_candidates: int = 3) -> ArrangementComparison:
+                         n_candidates: int = 3, catalogue: Any = None) -> ArrangementComparison:
     """Every arrangement of :data:`ARRANGEMENTS` (or ``keys``) on the current layout, ranked.
 
     Each is solved by :func:`engine.solve`. Ranking: arrangements that meet every requirement
@@ -761,7 +767,8 @@ def compare_arrangements(design: Any, *, keys: Iterable[str] | None = None,
         lab = arrangement_label(data, k) if k in ARRANGEMENTS else k
         if k not in ARRANGEMENTS:
             raise _err("arrangement", f"unknown arrangement {k!r}; use one of {', '.join(ARRANGEMENTS)}")
-        opts.append(_option(k, lab, arrangement_design(data, k), current=(k == cur), n_candidates=n_candidates))
+        opts.append(_option(k, lab, arrangement_design(data, k), current=(k == cur), n_candidates=n_candidates,
+                            catalogue=catalogue))
     order = sorted(range(len(opts)), key=lambda i: (
         opts[i].error is not None, not opts[i].ok,
         opts[i].volume_cm3 if opts[i].volume_cm3 is not None else math.inf,
@@ -948,14 +955,14 @@ class _HeldRating:
     ``rate`` returns None when it does not apply (the caller then runs the full rating).
     """
 
-    def __init__(self, design: Design, held: dict[str, str]):
+    def __init__(self, design: Design, held: dict[str, str], catalogue: Any = None):
         from engine.bearings import bundled_catalogue
         from engine.bearings.equivalent import INDUCED_TYPES
         from engine.bearings.life import WEIBULL_B, WEIBULL_THETA, WEIBULL_X0, a1_iso, weibull_factor
         from engine.bearings.lubrication import viscosity_at
 
         self.ok = not any(s.bearing_type in INDUCED_TYPES for s in design.supports)
-        self.cat = cat = bundled_catalogue()
+        self.cat = cat = bundled_catalogue() if catalogue is None else catalogue
         req = design.requirements
         if req.reliability_method == "weibull":
             self.a_R = float(weibull_factor(req.reliability_pct, x0=getattr(req, "weibull_x0", WEIBULL_X0),
@@ -1018,7 +1025,7 @@ class _HeldRating:
         return split, out
 
 
-def _mirror_result(design: Design, a: Any, held_rating: _HeldRating | None = None) -> Any:
+def _mirror_result(design: Design, a: Any, held_rating: _HeldRating | None = None, catalogue: Any = None) -> Any:
     """The parts of :func:`engine.solve`'s Result that the figures use, from an Analysis
     (bearings rated, axial force and torque along x, shaft checks), as solve() makes them."""
     from types import SimpleNamespace
@@ -1030,7 +1037,7 @@ def _mirror_result(design: Design, a: Any, held_rating: _HeldRating | None = Non
 
     fast = held_rating.rate(design, a) if held_rating is not None else None
     if fast is None:
-        outcome = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N)
+        outcome = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N, catalogue=catalogue)
         split, bearings, bchecks = outcome.split, outcome.bearings, list(outcome.checks)
     else:
         (split, bearings), bchecks = fast, []
@@ -1057,7 +1064,8 @@ def _loads_unchanged(study: Study) -> bool:
 
 
 def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
-                     base_loads: list[Any] | None, *, fast_bearings: bool = False) -> list[VariantFigures | DesignError]:
+                     base_loads: list[Any] | None, *, fast_bearings: bool = False,
+                     catalogue: Any = None) -> list[VariantFigures | DesignError]:
     from dataclasses import replace
 
     loads = None
@@ -1068,10 +1076,10 @@ def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
             loads.append([replace(cl, x_mm=xs) for cl in base_loads])
     out: list[VariantFigures | DesignError] = []
     analyses = batched_analyses(designs, loads=loads)
-    rating = _HeldRating(designs[0], held) if fast_bearings and designs else None
+    rating = _HeldRating(designs[0], held, catalogue) if fast_bearings and designs else None
     for d, a, vals in zip(designs, analyses, study.combinations()):
         try:
-            out.append(figures_of(d, _mirror_result(d, a, rating), held=held, values=vals))
+            out.append(figures_of(d, _mirror_result(d, a, rating, catalogue), held=held, values=vals))
         except DesignError as exc:
             out.append(exc)
     return out
