@@ -23,8 +23,9 @@ from dataclasses import dataclass, field
 from typing import Any, Iterable, Mapping
 
 from app import units
-from engine.model import (BEARING_TYPES, ELEMENT_KINDS, BevelGear, Coupling, Gear, Issue,
-                          PointForce, PointMoment, Pulley, Sprocket)
+from engine.model import (BEARING_TYPES, ELEMENT_KINDS, BevelGear, Coupling, Gear, Issue, LoadCase,
+                          Material, PointForce, PointMoment, Pulley, Requirements, Segment, Sprocket,
+                          Support)
 
 __all__ = [
     "Field", "Row", "Section", "FormState", "LISTS", "ELEMENT_FIELDS", "design_to_form",
@@ -200,12 +201,24 @@ def parse_number(text: str) -> float:
 
 # --- design -> form --------------------------------------------------------------------------
 
+def _default(model: Any, key: str) -> Any:
+    """The model's default for ``key`` (None when it has none): shown in the box, so the user
+    sees the value the engine will use."""
+    info = getattr(model, "model_fields", {}).get(key) if model is not None else None
+    if info is None or info.is_required():
+        return None
+    d = info.get_default(call_default_factory=True)
+    return d if isinstance(d, (int, float, str)) and not isinstance(d, bool) else None
+
+
 def _put_obj(out: FormState, prefix: str, obj: Mapping[str, Any], fields: Iterable[Field],
-             system: str, skip: tuple[str, ...] = ()) -> None:
+             system: str, skip: tuple[str, ...] = (), model: Any = None) -> None:
     fields = tuple(fields)
     shown = {f.key for f in fields}
     for f in fields:
         v = obj.get(f.key)
+        if v is None and f.key not in obj and f.required:
+            v = _default(model, f.key)
         if f.kind == "number":
             out[prefix + f.key] = "" if v is None else units.fmt_input(float(v), f.quantity, system)
         elif f.kind == "check":
@@ -233,17 +246,20 @@ def design_to_form(design: Mapping[str, Any], system: str = "si") -> FormState:
     out["gravity.on"] = "" if ("gravity" in d and d["gravity"] is None) else "1"
     shaft = dict(d.get("shaft") or {})
     _put_obj(out, "shaft.", shaft, (), system, skip=("material", "segments"))
-    _put_obj(out, "shaft.material.", dict(shaft.get("material") or {}), MATERIAL_FIELDS, system)
+    _put_obj(out, "shaft.material.", dict(shaft.get("material") or {}), MATERIAL_FIELDS, system,
+             model=Material)
     for i, s in enumerate(shaft.get("segments") or []):
-        _put_obj(out, f"shaft.segments[{i}].", s, SEGMENT_FIELDS, system)
+        _put_obj(out, f"shaft.segments[{i}].", s, SEGMENT_FIELDS, system, model=Segment)
     for i, s in enumerate(d.get("supports") or []):
-        _put_obj(out, f"supports[{i}].", s, SUPPORT_FIELDS, system)
+        _put_obj(out, f"supports[{i}].", s, SUPPORT_FIELDS, system, model=Support)
     for i, e in enumerate(d.get("elements") or []):
         kind = e.get("kind", "gear")
-        _put_obj(out, f"elements[{i}].", e, ELEMENT_FIELDS.get(kind, _COMMON), system)
+        _put_obj(out, f"elements[{i}].", e, ELEMENT_FIELDS.get(kind, _COMMON), system,
+                 model=_KIND_MODEL.get(kind))
     for i, c in enumerate(d.get("load_cases") or []):
-        _put_obj(out, f"load_cases[{i}].", c, LOAD_CASE_FIELDS, system)
-    _put_obj(out, "requirements.", dict(d.get("requirements") or {}), REQUIREMENT_FIELDS, system)
+        _put_obj(out, f"load_cases[{i}].", c, LOAD_CASE_FIELDS, system, model=LoadCase)
+    _put_obj(out, "requirements.", dict(d.get("requirements") or {}), REQUIREMENT_FIELDS, system,
+             model=Requirements)
     return out
 
 

@@ -108,3 +108,28 @@ def test_engine_messages_use_labels_and_display_units():
     msgs = {i.path: i.message for i in issues}
     assert msgs["elements[0].pitch_d_mm"] == "pitch diameter must be greater than 0\u202fin, got “-2”"
     assert msgs["requirements.reliability_pct"] == "reliability must be at least 90%, got “80”"
+
+
+def test_every_sample_design_survives_the_form_and_draws():
+    import json
+    import xml.dom.minidom
+    from pathlib import Path
+
+    from app import drawing
+
+    root = Path(__file__).resolve().parents[2] / "sample_data"
+    seen = 0
+    for p in sorted(root.glob("*.json")):
+        d = json.loads(p.read_text(encoding="utf-8"))
+        if d.get("format") != "shaft-design/1":
+            continue
+        seen += 1
+        for system in ("si", "us"):
+            back, issues = web.form_to_design(web.design_to_form(d, system))
+            assert issues == [], (p.name, system)
+            a, b = engine.parse_design(d), engine.parse_design(back)
+            if system == "si":
+                assert a.model_dump() == b.model_dump(), p.name
+        res = engine.solve(d)
+        xml.dom.minidom.parseString(drawing.shaft_svg(d, res))
+    assert seen >= 1
