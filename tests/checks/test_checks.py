@@ -162,3 +162,42 @@ def test_summary_fills_the_result_model(out):
     s = ShaftSummary(max_deflection_mm=0.01, **out.summary())
     assert s.critical_speed_rpm == out.critical_speed_rpm and len(s.natural_frequencies_rpm) == 3
     assert s.min_safety_factor == out.min_safety_factor and s.torsional_rpm == out.torsional_rpm
+
+
+def _section_at(out, x):
+    return next(s for s in out.sections if s.x_mm == x)
+
+
+def test_press_fit_and_keyway_take_the_larger_factor():
+    # several raisers at one node do not multiply; the larger Kf of each load kind governs
+    # (common practice). Press fit: Kf taken directly (2.0 bending, 1.5 torsion; common practice).
+    d = copy.deepcopy(DEMO)
+    d["elements"][0]["press_fit"] = True
+    s = _section_at(shaft_checks(analysis_of(d)), 180)
+    kf_key = 1 + float(st.notch_sensitivity(Su_MPa=700, r_mm=0.02 * 46)) * (2.14 - 1)
+    assert s.Kf == pytest.approx(max(2.0, kf_key))
+    d["elements"][0]["keyway"] = None
+    s = _section_at(shaft_checks(analysis_of(d)), 180)
+    assert (s.Kf, s.Kfs) == (2.0, 1.5)
+
+
+def test_alternating_torque_and_temperature_lower_the_fatigue_safety():
+    # the shoulder at x = 105 mm carries torque (between the coupling and the gear)
+    base = _section_at(shaft_checks(analysis_of(DEMO)), 105)
+    d = copy.deepcopy(DEMO)
+    for c in d["load_cases"]:
+        c["torque_alternating_pct"] = 50
+    alt = _section_at(shaft_checks(analysis_of(d)), 105)
+    assert alt.n_fatigue < base.n_fatigue and alt.n_yield < base.n_yield
+    d = copy.deepcopy(DEMO)
+    d["requirements"]["shaft_temperature_C"] = 400
+    hot = _section_at(shaft_checks(analysis_of(d)), 105)
+    assert hot.Se_MPa == pytest.approx(base.Se_MPa * st.marin_temperature(400))  # Shigley Eq. 6-27
+
+
+def test_hollow_section_stresses():
+    # σ = 32·M·d/(π(d⁴ − di⁴)), τ = 16·T·d/(π(d⁴ − di⁴)) (Shigley 9th ed. §3-12, §3-11; derived)
+    sb, tau, sax = st.nominal_stresses(d_mm=40.0, bore_mm=20.0, M_Nmm=1e5, T_Nmm=2e5, N_N=3e3)
+    assert sb == pytest.approx(32 * 1e5 * 40 / (math.pi * (40**4 - 20**4)))
+    assert tau == pytest.approx(16 * 2e5 * 40 / (math.pi * (40**4 - 20**4)))
+    assert sax == pytest.approx(4 * 3e3 / (math.pi * (40**2 - 20**2)))

@@ -148,3 +148,14 @@ def test_subspace_iteration_matches_the_full_eigenproblem(overhang):
     lam, phi = subspace_iteration(K, M, 3)
     assert np.allclose(lam, full[:3], rtol=1e-9)
     assert np.allclose(np.abs(phi.T @ M @ phi_full[:, :3]), np.eye(3), atol=1e-6)
+
+
+def test_modes_against_scipy_generalized_eigh():
+    # independent library (tests only): scipy.linalg.eigh(K, M) on the same matrices
+    scipy_linalg = pytest.importorskip("scipy.linalg")
+    from engine.dynamics import dynamics_mesh, lateral_system
+    des = stepped(True)
+    K, M, free = lateral_system(des, dynamics_mesh(des))
+    K, M = K[np.ix_(free, free)], M[np.ix_(free, free)]
+    ref = np.sqrt(scipy_linalg.eigh(K, M, eigvals_only=True)[:3]) * 30 / math.pi
+    assert np.allclose(lateral_frequencies(des).rpm, ref, rtol=1e-9)
