@@ -39,7 +39,7 @@ import numpy as np
 from engine import dynamics, stiffness, strength
 from engine.result import Check
 
-__all__ = ["Section", "ShaftCheckOutcome", "shaft_checks", "sort_checks", "CRITICAL_SPEED_SOURCE"]
+__all__ = ["Section", "ShaftCheckOutcome", "shaft_checks", "sort_checks", "AT_LEAST_CODES", "CRITICAL_SPEED_SOURCE"]
 
 CRITICAL_SPEED_SOURCE = ("common practice: run at least the margin below the first lateral "
                          "critical speed (memory: Shigley 9th ed. §7-6 asks for a generous margin)")
@@ -249,16 +249,24 @@ def _fatigue_factors(secs: list[dict], rz: _Raisers, *, Su_MPa: float, method: s
 
 # --- the entry point ---------------------------------------------------------------------------
 
+# checks whose value must reach the limit from above (safety factors, lives); every other
+# check with a value and a limit is read as "value at most limit"
+AT_LEAST_CODES = frozenset({"shaft.fatigue", "shaft.yield", "bearing.life", "bearing.static"})
+
+
 def _margin(c: Check) -> float:
     if c.value is None or not c.limit:
         return 0.0
-    if c.code in ("shaft.fatigue", "shaft.yield"):
+    if c.code in AT_LEAST_CODES:
         return c.value / c.limit - 1.0
     return 1.0 - c.value / c.limit
 
 
 def sort_checks(checks: list[Check]) -> list[Check]:
-    """Failing first, then warnings, then the rest; within each, the smallest margin first."""
+    """Failing first, then warnings, then the rest; within each, the smallest relative margin
+    first (value/limit − 1 for the codes in :data:`AT_LEAST_CODES`, 1 − value/limit otherwise).
+    Stable, so checks without a value keep their order. Usable on the merged list of bearing
+    and shaft checks."""
     rank = {"fail": 0, "warn": 1, "ok": 2}
     return sorted(checks, key=lambda c: (rank[c.status], _margin(c)))
 
