@@ -202,3 +202,13 @@ def test_hollow_section_stresses():
     assert sb == pytest.approx(32 * 1e5 * 40 / (math.pi * (40**4 - 20**4)))
     assert tau == pytest.approx(16 * 2e5 * 40 / (math.pi * (40**4 - 20**4)))
     assert sax == pytest.approx(4 * 3e3 / (math.pi * (40**2 - 20**2)))
+
+
+def test_sort_checks_reads_at_least_and_at_most_margins():
+    from engine.checks import sort_checks
+    from engine.result import Check
+    life = Check(code="bearing.life", status="ok", message="", value=21000, limit=20000)  # +5 %
+    slope = Check(code="shaft.bearing_slope", status="ok", message="", value=0.0009, limit=0.001)  # +10 %
+    fat = Check(code="shaft.fatigue", status="ok", message="", value=1.8, limit=1.5)  # +20 %
+    bad = Check(code="shaft.yield", status="fail", message="", value=1.2, limit=1.5)
+    assert sort_checks([fat, slope, life, bad]) == [bad, life, slope, fat]
