@@ -866,21 +866,27 @@ def batched_bending(designs: Sequence[Design], meshes: Sequence[Any], F_nodal: S
         D0, U0, L0 = Dg.copy(), Up.copy(), Lo.copy()
         rhs = np.moveaxis(f, 3, 1).reshape(B, N, nc * 2, 2).transpose(0, 1, 3, 2).copy()  # (B, N, 2, R)
         rhs_orig = rhs.copy()
+        rb, rn, eb, en, ek = [], [], [], [], []  # rigid (variant, node); elastic (variant, node, k)
         for b, k in enumerate(ks):
-            for s, node in zip(designs[k].supports, meshes[k].support_nodes):
-                if s.radial_stiffness_N_per_mm is None:
-                    Dg[b, node, 0, :] = 0.0
-                    Dg[b, node, :, 0] = 0.0
-                    Dg[b, node, 0, 0] = 1.0
-                    if node < N - 1:
-                        Up[b, node, 0, :] = 0.0
-                        Lo[b, node, :, 0] = 0.0
-                    if node > 0:
-                        Up[b, node - 1, :, 0] = 0.0
-                        Lo[b, node - 1, 0, :] = 0.0
-                    rhs[b, node, 0, :] = 0.0
+            for sup, node in zip(designs[k].supports, meshes[k].support_nodes):
+                if sup.radial_stiffness_N_per_mm is None:
+                    rb.append(b), rn.append(int(node))
                 else:
-                    Dg[b, node, 0, 0] += s.radial_stiffness_N_per_mm
+                    eb.append(b), en.append(int(node)), ek.append(sup.radial_stiffness_N_per_mm)
+        rb, rn = np.array(rb, int), np.array(rn, int)
+        if rb.size:
+            Dg[rb, rn, 0, :] = 0.0
+            Dg[rb, rn, :, 0] = 0.0
+            Dg[rb, rn, 0, 0] = 1.0
+            m = rn < N - 1
+            Up[rb[m], rn[m], 0, :] = 0.0
+            Lo[rb[m], rn[m], :, 0] = 0.0
+            m = rn > 0
+            Up[rb[m], rn[m] - 1, :, 0] = 0.0
+            Lo[rb[m], rn[m] - 1, 0, :] = 0.0
+            rhs[rb, rn, 0, :] = 0.0
+        if eb:
+            np.add.at(Dg, (np.array(eb), np.array(en), 0, 0), np.array(ek))
         with np.errstate(divide="ignore", invalid="ignore"):
             u = _block_tridiagonal_solve(Dg, Up, Lo, rhs)  # (B, N, 2, R)
         # reactions with the unmodified stiffness: (K u − f) at each support's deflection DOF
@@ -890,22 +896,22 @@ def batched_bending(designs: Sequence[Design], meshes: Sequence[Any], F_nodal: S
         reac = Ku - rhs_orig
         u_c = u.transpose(0, 3, 1, 2).reshape(B, nc, 2, N, 2)  # (B, nc, plane, node, dof)
         r_c = reac.transpose(0, 3, 1, 2).reshape(B, nc, 2, N, 2)
-        dof = _dofs(n_el)
+        flat = u_c.reshape(B, nc, 2, 2 * N)
+        ue = flat[:, :, :, _dofs(n_el)]  # (B, nc, 2, n_el, 4)
+        end = np.einsum("beij,bcpej->bcpei", ke, ue) - fe
+        V = np.stack([end[..., 0], -end[..., 2]], axis=-1)
+        M = np.stack([-end[..., 1], end[..., 3]], axis=-1)
+        finite = np.isfinite(flat).all(axis=(1, 2, 3))
         for b, k in enumerate(ks):
-            uk = u_c[b]
-            if not np.all(np.isfinite(uk)):
+            if not finite[b]:
                 raise EngineError.at("supports", "the supports do not hold the shaft: it can move as a rigid body")
             d, m = designs[k], meshes[k]
-            R = np.empty((nc, 2, len(d.supports)))
-            for j, (s, node) in enumerate(zip(d.supports, m.support_nodes)):
-                R[:, :, j] = (r_c[b, :, :, node, 0] if s.radial_stiffness_N_per_mm is None
-                              else -s.radial_stiffness_N_per_mm * uk[:, :, node, 0])
-            flat = uk.reshape(nc, 2, 2 * N)
-            ue = flat[:, :, dof]
-            end = np.einsum("eij,cpej->cpei", ke[b], ue) - fe[b]
-            V = np.stack([end[..., 0], -end[..., 2]], axis=-1)
-            M = np.stack([-end[..., 1], end[..., 3]], axis=-1)
-            out[k] = BeamSolution(u_mm=flat[:, :, 0::2], slope_rad=flat[:, :, 1::2], V_N=V, M_Nmm=M, R_N=R)
+            nodes = np.asarray(m.support_nodes, int)
+            R = r_c[b][:, :, nodes, 0].copy()  # (nc, 2, n_supports)
+            for j, sup in enumerate(d.supports):
+                if sup.radial_stiffness_N_per_mm is not None:
+                    R[:, :, j] = -sup.radial_stiffness_N_per_mm * u_c[b][:, :, nodes[j], 0]
+            out[k] = BeamSolution(u_mm=flat[b][:, :, 0::2], slope_rad=flat[b][:, :, 1::2], V_N=V[b], M_Nmm=M[b], R_N=R)
     return out
 
 
