@@ -570,6 +570,12 @@ def _held(result: Result) -> dict[str, str]:
     return {b.id: b.candidates[0].designation for b in result.bearings if b.candidates}
 
 
+def _fault(exc: Exception) -> DesignError:
+    """An engine fault on one variant, as a message (the study goes on)."""
+    return DesignError([Issue(path="", message=f"the engine could not solve this variant "
+                                               f"({type(exc).__name__}: {exc})")])
+
+
 def _message(exc: DesignError) -> str:
     return "; ".join(f"{e.path}: {e.message}" if e.path else e.message for e in exc.errors)
 
@@ -651,6 +657,8 @@ def run_study(design: Any, study: Study | Sequence[Any], *,
                 variants[k] = figures_of(vd, res, held=held, values=vals)
             except DesignError as exc:
                 variants[k] = VariantFigures(values=vals, error=_message(exc), ok=False)
+            except (ArithmeticError, ValueError, IndexError, np.linalg.LinAlgError) as exc:
+                variants[k] = VariantFigures(values=vals, error=_message(_fault(exc)), ok=False)
     req = design.requirements
     return StudyResult(
         variables=study.variables, values=study.values, shape=study.shape, base=base,
@@ -710,6 +718,8 @@ def _option(key: str, label: str, data: dict, *, current: bool, n_candidates: in
         res = engine.solve(d, diagrams=False, **_cat(catalogue))
     except DesignError as exc:
         return ArrangementOption(key=key, label=label, error=_message(exc), current=current)
+    except (ArithmeticError, ValueError, IndexError, np.linalg.LinAlgError) as exc:
+        return ArrangementOption(key=key, label=label, error=_message(_fault(exc)), current=current)
     fig = figures_of(d, res)
     by_id = {b.id: b for b in fig.bearings}
     bears: list[ArrangementBearing] = []
@@ -1088,6 +1098,8 @@ def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
             out.append(figures_of(d, _mirror_result(d, a, rating, catalogue), held=held, values=vals))
         except DesignError as exc:
             out.append(exc)
+        except (ArithmeticError, ValueError, IndexError, np.linalg.LinAlgError) as exc:
+            out.append(_fault(exc))
     return out
 
 

@@ -117,6 +117,10 @@ async def api_study(request: Request) -> JSONResponse:
         res = run_study(design, body["vary"])
     except DesignError as exc:
         return _errors(exc)
+    except Exception as exc:  # an engine fault: say so, keep the server up
+        log.exception("study failed")
+        return JSONResponse(status_code=500, content={"errors": [{"path": "", "message":
+                            f"the engine could not run this study ({type(exc).__name__}: {exc})"}]})
     return JSONResponse(_clean(res.model_dump(mode="json")))
 
 
@@ -132,6 +136,10 @@ async def api_arrangements(request: Request) -> JSONResponse:
         res = compare_arrangements(design)
     except DesignError as exc:
         return _errors(exc)
+    except Exception as exc:  # an engine fault: say so, keep the server up
+        log.exception("arrangement comparison failed")
+        return JSONResponse(status_code=500, content={"errors": [{"path": "", "message":
+                            f"the engine could not compare arrangements ({type(exc).__name__}: {exc})"}]})
     return JSONResponse(_clean(res.model_dump(mode="json")))
 
 
