@@ -202,7 +202,9 @@ def _build_sections(a, M_node: np.ndarray):
         secs.append(dict(node=node, x=float(x[node]), d=D - 2 * g.depth_mm, bore=float(mesh.bore_mm[el]),
                          surface=shaft.segments[int(seg_of_el[el])].surface,
                          labels=[f"retaining-ring groove, root {D - 2 * g.depth_mm:g} mm"], kind="groove"))
-        rz.add(len(secs) - 1, strength.GROOVE_KT, g.r_mm)
+        kt = tuple(float(strength.kt_groove(D_mm=D, t_mm=g.depth_mm, r_mm=g.r_mm, load=ld))
+                   for ld in ("bending", "torsion", "axial"))
+        rz.add(len(secs) - 1, kt, g.r_mm)
 
     for s, node in zip(design.supports, mesh.support_nodes):
         k = section(int(node))

@@ -8,6 +8,7 @@ Public functions
 ----------------
 - :func:`kt_shoulder` — Kt of a shoulder fillet (bending, torsion, axial) from Norton's power
   fits of Peterson's stepped-shaft charts.
+- :func:`kt_groove` — Kt of a circumferential groove from fits of Peterson's U-groove charts.
 - :data:`KEYWAY_KT`, :data:`GROOVE_KT`, :data:`PRESS_FIT_KF` — first-iteration factors.
 - :func:`notch_sensitivity`, :func:`fatigue_notch_factor` — q (Neuber, Kuhn–Hardrath), Kf.
 - :func:`endurance_limit_specimen`, :func:`marin_surface`, :func:`marin_size`,
@@ -40,7 +41,7 @@ import numpy as np
 
 __all__ = [
     "CRITERIA", "DEFAULT_CRITERION", "SAFETY_CAP", "SHOULDER_FITS", "kt_shoulder",
-    "KEYWAY_KT", "KEYWAY_R_OVER_D", "GROOVE_KT", "PRESS_FIT_KF", "SHARP_FILLET_R_OVER_D",
+    "KEYWAY_KT", "KEYWAY_R_OVER_D", "GROOVE_KT", "GROOVE_FITS", "kt_groove", "PRESS_FIT_KF", "SHARP_FILLET_R_OVER_D",
     "notch_sensitivity", "fatigue_notch_factor",
     "endurance_limit_specimen", "marin_surface", "marin_size", "marin_temperature",
     "marin_reliability", "endurance_limit",
@@ -86,7 +87,7 @@ KEYWAY_KT: dict[str, tuple[float, float, float]] = {
     "sled_runner": (1.7, 3.0, 1.7),
 }
 KEYWAY_R_OVER_D = 0.02
-GROOVE_KT: tuple[float, float, float] = (5.0, 3.0, 5.0)  # retaining-ring groove, Table 7-1
+GROOVE_KT: tuple[float, float, float] = (5.0, 3.0, 5.0)  # retaining-ring groove, Table 7-1 (for comparison)
 # A press-fitted hub acts through fretting, not a geometric notch: Kf taken directly, q = 1
 # (common practice: about 2 in bending, range 1.5–2.5; torsion about 1.5; memory).
 PRESS_FIT_KF: tuple[float, float, float] = (2.0, 1.5, 2.0)
@@ -137,6 +138,66 @@ def kt_shoulder(*, D_mm, d_mm, r_mm, load: Literal["bending", "torsion", "axial"
     cols = np.arange(q.size)
     kt = vals[idx, cols] * (1 - t) + vals[idx + 1, cols] * t
     return np.maximum(kt, 1.0).reshape(D.shape)
+
+
+# Peterson's charts for a U-shaped circumferential groove in a round bar, as polynomial fits
+# Kt = C1 + C2·(2t/D) + C3·(2t/D)² + C4·(2t/D)³ with Ci = a + b·√(t/r) + c·(t/r), two bands of
+# t/r (Pilkey [3] Charts 2.19–2.21 fits; also Roark's Formulas, Table 17.1; from memory —
+# checked for consistency: shallow limit C1 ≈ 1 + 2√(t/r) (1 + √(t/r) in torsion), deep limit
+# ΣCi ≈ 1). Rows: (a, b, c) for C1..C4.
+GROOVE_FITS: dict[str, tuple[tuple[tuple[float, float, float], ...], tuple[tuple[float, float, float], ...]]] = {
+    "bending": (((0.594, 2.958, -0.520), (0.422, -10.545, 2.692), (0.501, 14.375, -4.486), (-0.613, -6.573, 2.177)),
+                ((0.965, 1.926, 0.0), (-2.773, -4.414, -0.017), (4.785, 4.681, 0.096), (-1.995, -2.241, -0.074))),
+    "torsion": (((0.966, 1.056, -0.022), (-0.192, -4.037, 0.674), (0.808, 5.321, -1.231), (-0.567, -2.364, 0.566)),
+                ((1.089, 0.924, 0.018), (-1.504, -2.141, -0.047), (2.486, 2.289, 0.091), (-1.056, -1.104, -0.059))),
+    "axial": (((0.455, 3.354, -0.769), (3.129, -15.955, 7.404), (-6.909, 29.037, -16.104), (4.325, -16.511, 9.469)),
+              ((0.935, 1.922, 0.004), (0.537, -3.708, 0.040), (-2.538, 3.438, -0.012), (2.066, -1.652, -0.031))),
+}
+
+
+def kt_groove(*, D_mm, t_mm, r_mm, load: Literal["bending", "torsion", "axial"] = "bending"):
+    r"""Theoretical stress concentration factor of a circumferential groove in a round shaft.
+
+    .. math:: K_t = C_1 + C_2\frac{2t}{D} + C_3\left(\frac{2t}{D}\right)^2 + C_4\left(\frac{2t}{D}\right)^3,
+              \quad C_i = a_i + b_i\sqrt{t/r} + c_i\,t/r
+
+    Parameters
+    ----------
+    D_mm : shaft diameter outside the groove, [mm]
+    t_mm : groove depth, [mm]
+    r_mm : groove root (corner) radius, [mm]
+    load : "bending", "torsion" or "axial"
+
+    Returns
+    -------
+    Kt on the nominal stress of the root diameter d = D − 2t, [-]
+
+    Notes
+    -----
+    Fits of Peterson's U-groove charts (:data:`GROOVE_FITS`, bands 0.25 ≤ t/r ≤ 2 and
+    2 ≤ t/r ≤ 50; above 50 the t/r = 50 value is used, below 0.25 Kt − 1 is scaled by
+    √(t/r / 0.25), the shallow-notch trend). A retaining-ring groove is flat-bottomed; its
+    factor lies below that of a U-groove of the same depth and root radius (Peterson), so
+    this is a conservative estimate. For common ring grooves it gives 4.5–6 in bending and
+    about 3 in torsion, as Shigley's Table 7-1 first-iteration values (5.0, 3.0) suggest.
+
+    >>> round(float(kt_groove(D_mm=30, t_mm=1.0, r_mm=0.2)), 2)
+    4.49
+    """
+    D, t, r = np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in (D_mm, t_mm, r_mm)))
+    tr_raw = t / np.maximum(r, 1e-9)
+    tr = np.clip(tr_raw, 0.25, 50.0)
+    x = 2.0 * t / D
+    low, high = (np.array(band) for band in GROOVE_FITS[load])
+    sq = np.sqrt(tr)
+    kt = np.zeros_like(tr)
+    for k in range(4):
+        ci = np.where(tr <= 2.0, low[k, 0] + low[k, 1] * sq + low[k, 2] * tr,
+                      high[k, 0] + high[k, 1] * sq + high[k, 2] * tr)
+        kt = kt + ci * x**k
+    # below t/r = 0.25 (a very shallow groove) Kt − 1 falls as √(t/r), the shallow-notch trend
+    kt = np.where(tr_raw < 0.25, 1.0 + (kt - 1.0) * np.sqrt(np.maximum(tr_raw, 0.0) / 0.25), kt)
+    return np.maximum(kt, 1.0)
 
 
 # --- notch sensitivity ----------------------------------------------------------------------

@@ -47,7 +47,8 @@ def test_sections_cover_shoulders_seats_supports_grooves_and_peaks(out):
     xs = {s.x_mm for s in out.sections}
     assert {45, 105, 255, 320, 180, 20, 75, 290, 340} <= xs
     groove = next(s for s in out.sections if s.kind == "groove")
-    assert groove.d_mm == pytest.approx(28.0) and groove.Kt == 5.0
+    assert groove.d_mm == pytest.approx(28.0)
+    assert groove.Kt == pytest.approx(float(st.kt_groove(D_mm=30, t_mm=1.0, r_mm=0.2)))
     gear = next(s for s in out.sections if s.x_mm == 180)
     assert gear.Kt == 2.14 and gear.Kts == 3.0  # Shigley Table 7-1, end-milled keyseat
     assert any("largest moment" in s.where for s in out.sections)

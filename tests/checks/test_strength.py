@@ -119,6 +119,26 @@ def test_shoulder_fit_trends():
         assert np.all(np.diff(kr) < 0) and np.all(kr >= 1.0)
 
 
+@pytest.mark.parametrize("load, shallow", [("bending", 2.0), ("axial", 2.0), ("torsion", 1.0)])
+def test_groove_fit_limits(load, shallow):
+    # shallow groove (2t/D → 0): Kt → 1 + c·√(t/r), c = 2 in tension and bending, 1 in torsion
+    # (elliptical notch, Inglis 1913; Peterson's charts tend to it; memory). Tolerance 6 %: the
+    # fits are of the charts, not of the limit. Deep groove (2t/D → 1): Kt → 1.
+    for tr in (1.0, 4.0, 16.0):
+        k = float(st.kt_groove(D_mm=1e4, t_mm=1.0, r_mm=1.0 / tr, load=load))
+        assert k == pytest.approx(1 + shallow * math.sqrt(tr), rel=0.06)
+        assert float(st.kt_groove(D_mm=2.0 + 1e-9, t_mm=1.0, r_mm=1.0 / tr, load=load)) == pytest.approx(1.0, abs=0.1)
+
+
+def test_groove_fit_against_table_7_1():
+    # a common retaining-ring groove (30 mm shaft, t = 1 mm, r = 0.1–0.25 mm) against Shigley
+    # 9th ed. Table 7-1 first-iteration values 5.0 (bending), 3.0 (torsion) (memory). Table 7-1
+    # is a rough estimate and the U-groove fit bounds a flat-bottom groove from above: 25 %.
+    for r in (0.1, 0.15, 0.25):
+        assert float(st.kt_groove(D_mm=30, t_mm=1.0, r_mm=r)) == pytest.approx(5.0, rel=0.25)
+        assert float(st.kt_groove(D_mm=30, t_mm=1.0, r_mm=r, load="torsion")) == pytest.approx(3.0, rel=0.25)
+
+
 def test_first_iteration_tables():
     # Shigley 9th ed. Table 7-1 (memory)
     assert st.KEYWAY_KT["end_milled"][:2] == (2.14, 3.0)
