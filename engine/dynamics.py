@@ -32,7 +32,9 @@ References
 .. [3] Budynas, R. G., Nisbett, J. K., *Shigley's Mechanical Engineering Design*, 9th ed.,
    §7-6, Eq. 7-23 (Rayleigh's method for a shaft with lumped masses) and Eq. 7-22
    (simply supported uniform shaft).
-.. [4] Den Hartog, J. P., *Mechanical Vibrations*, 4th ed., 1956, §5 (two-inertia torsional system).
+.. [4] Den Hartog, J. P., *Mechanical Vibrations*, 4th ed., 1956 (two-inertia torsional system).
+
+Section and equation numbers are as recalled (memory).
 """
 from __future__ import annotations
 

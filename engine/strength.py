@@ -23,7 +23,8 @@ References
 ----------
 .. [1] Budynas, R. G., Nisbett, J. K., *Shigley's Mechanical Engineering Design*, 9th ed.,
    McGraw-Hill, 2011: §6-7 to §6-14 (S–N line, Marin factors, notch sensitivity, fluctuating
-   stresses), §7-4 (shaft stresses, DE criteria), Table 7-1 (first-iteration Kt).
+   stresses), §7-4 (shaft stresses, DE criteria), Table 7-1 (first-iteration Kt). Equation,
+   table and figure numbers throughout are as recalled (memory): verify against the book.
 .. [2] Norton, R. L., *Machine Design: An Integrated Approach*, Prentice Hall: Appendix C,
    power-law fits Kt ≈ A·(r/d)^b of Peterson's stepped-shaft charts (constants from memory).
 .. [3] Pilkey, W. D., *Peterson's Stress Concentration Factors*, 2nd ed., Wiley, 1997
@@ -142,7 +143,7 @@ def kt_shoulder(*, D_mm, d_mm, r_mm, load: Literal["bending", "torsion", "axial"
 
 # Peterson's charts for a U-shaped circumferential groove in a round bar, as polynomial fits
 # Kt = C1 + C2·(2t/D) + C3·(2t/D)² + C4·(2t/D)³ with Ci = a + b·√(t/r) + c·(t/r), two bands of
-# t/r (Pilkey [3] Charts 2.19–2.21 fits; also Roark's Formulas, Table 17.1; from memory —
+# t/r (fits given with the U-groove charts in Pilkey [3] and in Roark's Formulas; from memory —
 # checked for consistency: shallow limit C1 ≈ 1 + 2√(t/r) (1 + √(t/r) in torsion), deep limit
 # ΣCi ≈ 1). Rows: (a, b, c) for C1..C4.
 GROOVE_FITS: dict[str, tuple[tuple[tuple[float, float, float], ...], tuple[tuple[float, float, float], ...]]] = {
