@@ -420,9 +420,9 @@ def study_plot(res: StudyResult) -> dict[str, Any]:
         ("critical speed [rpm]", lambda v: v.critical_speed_rpm),
     ]
     okz = grid(lambda v: 1.0 if v.ok else None)
-    traces, layout = [], {"height": 820, "margin": {"l": 70, "r": 30, "t": 40, "b": 50}, "meta": meta,
+    traces, layout = [], {"height": 900, "margin": {"l": 70, "r": 40, "t": 40, "b": 60}, "meta": meta,
                           "annotations": [], "showlegend": False}
-    doms = [([0.0, 0.45], [0.55, 1.0]), ([0.55, 1.0], [0.55, 1.0]), ([0.0, 0.45], [0.0, 0.45]), ([0.55, 1.0], [0.0, 0.45])]
+    doms = [([0.0, 0.43], [0.6, 0.97]), ([0.57, 1.0], [0.6, 0.97]), ([0.0, 0.43], [0.0, 0.37]), ([0.57, 1.0], [0.0, 0.37])]
     for p, ((title, get), (dx, dy)) in enumerate(zip(panels, doms), start=1):
         sx = "" if p == 1 else str(p)
         cb_x = dx[1] + 0.005
