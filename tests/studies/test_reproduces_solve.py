@@ -73,3 +73,19 @@ def test_a_variant_the_engine_refuses_carries_its_message(demo):
     bad, good = res.variants
     assert bad.error and "supports" in bad.error and "both at x = 75" in bad.error and bad.ok is False
     assert good.error is None and good.bearings
+
+
+def test_every_variant_is_the_solve_of_the_design_it_would_give(demo):
+    """What a study shows for a variant is what taking that variant into the design gives."""
+    from engine.study import _held, apply_values, parse_study
+
+    d = engine.parse_design(demo)
+    study = parse_study(d, ["elements.G1.x_mm=120:190:3", "supports.B.x_mm=245,262"])
+    res = run_study(demo, study)
+    held = _held(engine.solve(demo, diagrams=False))
+    data = d.model_dump(mode="json")
+    for vals, v in zip(study.combinations(), res.variants):
+        vd = engine.parse_design(apply_values(data, study, vals))
+        assert vd.element("G1").x_mm == vals[0] and vd.support("B").x_mm == vals[1]
+        ref = figures_of(vd, engine.solve(vd, diagrams=False), held=held, values=vals)
+        assert _same(v, ref, rtol=1e-9), (v, ref)
