@@ -556,6 +556,7 @@ def figures_of(design: Design, result: Result, *, held: dict[str, str] | None = 
             words = [w for w in ("life", "static", "speed")
                      if pick is not None and any(r.startswith(w) for r in pick.reasons)] or ["seat"]
             failing += [f"bearing.{w} ({b.id})" for w in words]
+    failing = sorted(dict.fromkeys(failing))  # independent of how the engine orders its checks
     lives = [b.life_h for b in bearings if b.life_h is not None]
     sl = [b.slope_rad for b in bearings if b.slope_rad is not None]
     return VariantFigures(
