@@ -253,7 +253,8 @@ def _fatigue_factors(secs: list[dict], rz: _Raisers, *, Su_MPa: float, method: s
 
 # checks whose value must reach the limit from above (safety factors, lives); every other
 # check with a value and a limit is read as "value at most limit"
-AT_LEAST_CODES = frozenset({"shaft.fatigue", "shaft.yield", "bearing.life", "bearing.static"})
+AT_LEAST_CODES = frozenset({"shaft.fatigue", "shaft.yield", "bearing.life", "bearing.static",
+                            "bearing.lubrication"})
 
 
 def _margin(c: Check) -> float:

@@ -11,7 +11,7 @@ from pydantic import BaseModel, ConfigDict
 
 __all__ = [
     "RESULT_FORMAT", "ElementForces", "SupportReaction", "CaseResult", "Candidate",
-    "SeriesMinimum", "BearingResult", "ShaftSummary", "Check", "Diagrams", "Result",
+    "SeriesMinimum", "BearingResult", "ShaftSection", "ShaftSummary", "Check", "Diagrams", "Result",
 ]
 
 RESULT_FORMAT = "shaft-result/1"
@@ -97,6 +97,28 @@ class BearingResult(_Out):
     notes: list[str] = []
 
 
+class ShaftSection(_Out):
+    """One checked section of the shaft and its governing load case (see engine.checks.Section)."""
+
+    x_mm: float
+    kind: str
+    where: str
+    d_mm: float
+    bore_mm: float
+    Kt: float
+    Kts: float
+    Kf: float
+    Kfs: float
+    Se_MPa: float
+    sigma_a_MPa: float
+    tau_m_MPa: float
+    n_fatigue: float
+    n_yield: float
+    d_min_mm: float
+    load_case: str
+    miner: bool = False
+
+
 class ShaftSummary(_Out):
     critical_speed_rpm: float | None = None
     natural_frequencies_rpm: list[float] = []
@@ -106,6 +128,7 @@ class ShaftSummary(_Out):
     mass_kg: float = 0.0
     length_mm: float = 0.0
     min_safety_factor: float | None = None
+    sections: list[ShaftSection] = []  # worst first
 
 
 class Check(_Out):

@@ -8,17 +8,19 @@ Units inside: mm, N, N·mm; the result carries N·m for moments as the contract 
 """
 from __future__ import annotations
 
+from dataclasses import asdict
 from typing import Any
 
 import numpy as np
 
 import engine
+from engine.checks import shaft_checks, sort_checks
 from engine.bearings import Catalogue, rate_bearings
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_mesh, solve_bending
 from engine.loads import CaseLoads, case_loads
 from engine.model import Design, parse_design
-from engine.result import (CaseResult, Diagrams, ElementForces, Result, ShaftSummary,
-                           SupportReaction)
+from engine.result import (CaseResult, Diagrams, ElementForces, Result, ShaftSection,
+                           ShaftSummary, SupportReaction)
 
 __all__ = ["solve", "Analysis", "analyse"]
 
@@ -97,6 +99,7 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
     T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
     a.N_N, a.T_Nmm = axial_and_torque(a.mesh, x_loads, Fx_loads, T_loads, _weight_density(design, a.loads)[:, 0])
 
+    sc = shaft_checks(a)
     u_res = np.hypot(a.beam.u_mm[:, 0], a.beam.u_mm[:, 1])  # (nc, N)
     cases = []
     for j, (case, cl) in enumerate(zip(design.load_cases, a.loads)):
@@ -115,7 +118,8 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
     mass = float(np.sum(a.mesh.A_mm2 * a.mesh.le_mm)) * design.shaft.material.density_kg_m3 * 1e-9
     return Result(
         engine_version=engine.__version__, load_cases=cases, bearings=rated.bearings,
-        checks=rated.checks, warnings=rated.warnings,
-        shaft=ShaftSummary(max_deflection_mm=float(u_res.max()), mass_kg=mass, length_mm=design.shaft.length_mm),
+        checks=sort_checks(rated.checks + sc.checks), warnings=rated.warnings,
+        shaft=ShaftSummary(max_deflection_mm=float(u_res.max()), mass_kg=mass, length_mm=design.shaft.length_mm,
+                           sections=[ShaftSection(**asdict(x)) for x in sc.sections], **sc.summary()),
         diagrams=_diagrams(a) if diagrams else Diagrams(x_mm=[], load_cases={}),
     )
