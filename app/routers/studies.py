@@ -27,6 +27,7 @@ from typing import Any
 
 from fastapi import APIRouter, Request
 from fastapi.responses import HTMLResponse, JSONResponse, Response
+from starlette.concurrency import run_in_threadpool
 
 import engine
 from engine.model import DesignError, Issue
@@ -114,7 +115,7 @@ async def api_study(request: Request) -> JSONResponse:
             raise DesignError([Issue(path="vary", message="give 'design' and 'vary' (one or two "
                                                           "variables, e.g. \"supports.B.x_mm=300:500:21\")")])
         design = _guard(_design_of(body))
-        res = run_study(design, body["vary"])
+        res = await run_in_threadpool(run_study, design, body["vary"])
     except DesignError as exc:
         return _errors(exc)
     except Exception as exc:  # an engine fault: say so, keep the server up
@@ -133,7 +134,7 @@ async def api_arrangements(request: Request) -> JSONResponse:
     try:
         body = await _json_body(request)
         design = _guard(_design_of(body))
-        res = compare_arrangements(design)
+        res = await run_in_threadpool(compare_arrangements, design)
     except DesignError as exc:
         return _errors(exc)
     except Exception as exc:  # an engine fault: say so, keep the server up
@@ -258,7 +259,7 @@ async def study_run(request: Request) -> HTMLResponse:
     form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
     try:
         data = _form_design(form)
-        res = run_study(data, _vary_of(form))
+        res = await run_in_threadpool(run_study, data, _vary_of(form))
     except DesignError as exc:
         return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
     except Exception as exc:  # never lose the page to an engine fault
@@ -274,7 +275,7 @@ async def study_arrangements(request: Request) -> HTMLResponse:
     """The arrangement comparison of the page's design (fragment)."""
     form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
     try:
-        cmp = compare_arrangements(_form_design(form))
+        cmp = await run_in_threadpool(compare_arrangements, _form_design(form))
     except DesignError as exc:
         return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
     return _fragment(request, "partials/study_arrangements.html", {"cmp": cmp})
