@@ -45,6 +45,9 @@ def cmd_note(args: argparse.Namespace) -> int:
 
 
 def main(argv: list[str] | None = None) -> int:
+    from app.server import limit_blas_threads
+
+    limit_blas_threads()  # before numpy loads: small systems, one BLAS thread is fastest
     parser = argparse.ArgumentParser(prog="shaftwright", description=__doc__)
     sub = parser.add_subparsers(dest="command", required=True)
     p = sub.add_parser("solve", help="solve a design file and print tables (or --json)")

@@ -1,6 +1,13 @@
 """Shared test helpers: demo designs and a small design builder."""
 from __future__ import annotations
 
+import os
+
+# One BLAS thread, as the app runs (app/server.py): the systems are small, and threaded BLAS on
+# two shared cores made a single solve ten to a hundred times slower. Must precede numpy.
+for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
+    os.environ.setdefault(_var, "1")
+
 import copy
 import json
 from pathlib import Path

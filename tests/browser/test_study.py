@@ -1,40 +1,16 @@
-"""The study page in headless Chromium: open it from the editor, run a study, see the plot
+"""The study page in headless Chromium (the session's browser and server, tests/browser/conftest.py): open it from the editor, run a study, see the plot
 with the current design marked, pick a variant, take it into the design."""
 from __future__ import annotations
 
-import os
-
 import pytest
 
-from tests.browser.conftest import ARTIFACTS, CHROMIUM, CHROMIUM_ARGS, start_server, stop_server
+from tests.browser.conftest import ARTIFACTS
 
 pytestmark = pytest.mark.browser
 
 
-@pytest.fixture(scope="module")
-def server(tmp_path_factory):
-    proc, url = start_server({"SHAFTWRIGHT_DB": str(tmp_path_factory.mktemp("db") / "s.db")})
-    yield url
-    stop_server(proc)
-
-
-@pytest.fixture(scope="module")
-def browser():
-    try:
-        from playwright.sync_api import sync_playwright
-    except ImportError:
-        if os.environ.get("CI", "").lower() == "true":
-            pytest.fail("playwright missing")
-        pytest.skip("playwright missing")
-    if not os.path.exists(CHROMIUM):
-        pytest.skip("no chromium")
-    with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, headless=True, args=CHROMIUM_ARGS)
-        yield b
-        b.close()
-
-
-def test_study_from_the_editor_to_a_variant_and_back(server, browser):
+def test_study_from_the_editor_to_a_variant_and_back(live_server, browser):
+    server = live_server
     ARTIFACTS.mkdir(parents=True, exist_ok=True)
     page = browser.new_page(viewport={"width": 1400, "height": 1000})
     errors, outside = [], []
