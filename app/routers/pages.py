@@ -27,7 +27,7 @@ from fastapi.responses import FileResponse, HTMLResponse, Response
 from fastapi.templating import Jinja2Templates
 
 import engine
-from app import drawing, plots, units, web
+from app import drawing, plots, results_view, units, web
 from engine.model import Issue
 
 __all__ = ["router", "templates", "render_editor", "demo_design", "solve_form", "PLOTLY_JS"]
@@ -126,18 +126,11 @@ def solve_form(form: Mapping[str, str]) -> dict[str, Any]:
         "case_names": case_names,
         "drawing": drawing.shaft_svg(design, result, load_case=view_case, system=system, width_px=1120) if design is not None else None,
         "plot_json": plots.diagram_json(result, design, load_case=view_case, system=system) if result is not None else None,
-        "checks": _sorted_checks(result) if result is not None else [],
+        "view": results_view.results_view(result) if result is not None else None,
         "n_supports": len(design.supports) if design is not None else 0,
     }
     ctx["elapsed_ms"] = (time.perf_counter() - t0) * 1000
     return ctx
-
-
-_RANK = {"fail": 0, "warn": 1, "ok": 2}
-
-
-def _sorted_checks(result: Any) -> list[Any]:
-    return sorted(result.checks, key=lambda c: _RANK.get(c.status, 3))
 
 
 def _form_of(raw: Any) -> dict[str, str]:

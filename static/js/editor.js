@@ -1,4 +1,5 @@
-/* Shaftwright editor: diagrams, field messages, working copy in local storage, drawing links. */
+/* Shaftwright editor: diagrams, field messages, working copy in local storage, drawing links,
+   opened result details kept open across live updates. */
 (function () {
   "use strict";
   var desk = document.querySelector(".desk");
@@ -93,8 +94,19 @@
     if (el) { ev.preventDefault(); el.focus(); }
   });
 
+  // folded checks and bearing lists that the user opened stay open across live updates
+  var openIds = {};
+  document.addEventListener("toggle", function (ev) {
+    var d = ev.target;
+    if (!d.id || !d.closest || !d.closest("#results, #results-detail")) return;
+    if (d.open) openIds[d.id] = true; else delete openIds[d.id];
+  }, true);
+  function reopen() {
+    Object.keys(openIds).forEach(function (id) { var d = document.getElementById(id); if (d && !d.open) d.open = true; });
+  }
+
   document.addEventListener("input", function (ev) { if (ev.target.closest && ev.target.closest("#design-form")) save(); });
-  document.body.addEventListener("htmx:afterSettle", function () { applyIssues(); syncCases(); drawPlot(); save(); });
+  document.body.addEventListener("htmx:afterSettle", function () { reopen(); applyIssues(); syncCases(); drawPlot(); save(); });
 
   var so = document.getElementById("start-over");
   if (so) so.addEventListener("click", function () {
