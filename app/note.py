@@ -252,7 +252,10 @@ def note_context(document: dict, meta: NoteMeta | None = None) -> dict[str, Any]
     ctx.update(inputs=_inputs(design, document), assumptions=_assumptions(design),
                methods=_methods(result), drawing=drawing_svg(design, result))
     if result is not None:
-        ctx.update(charts=_charts(result),
+        sources: dict[str, int] = {}
+        for c in result.checks:
+            sources.setdefault(c.source, len(sources) + 1)
+        ctx.update(charts=_charts(result), check_sources=sources,
                    status_counts={s: sum(c.status == s for c in result.checks)
                                   for s in ("ok", "warn", "fail")})
     return ctx
