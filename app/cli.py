@@ -21,8 +21,11 @@ def cmd_solve(args: argparse.Namespace) -> int:
     import engine
     from app.report import text_report
 
+    from engine.bearings import load_catalogue
+
     try:
-        result = engine.solve(_load(args.design))
+        table = load_catalogue(args.bearings) if args.bearings else None
+        result = engine.solve(_load(args.design), catalogue=table)
     except engine.DesignError as exc:
         for e in exc.errors:
             print(f"error: {e.path or '(design)'}: {e.message}", file=sys.stderr)
@@ -53,6 +56,8 @@ def main(argv: list[str] | None = None) -> int:
     p = sub.add_parser("solve", help="solve a design file and print tables (or --json)")
     p.add_argument("design")
     p.add_argument("--json", action="store_true", help="print the result document")
+    p.add_argument("--bearings", metavar="TABLE.csv",
+                   help="your own bearing table (same columns as sample_data/bearings.csv)")
     p.set_defaults(func=cmd_solve)
     p = sub.add_parser("serve", help="run the web app (opens on the demo design)")
     p.add_argument("--host", default="127.0.0.1")

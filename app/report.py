@@ -42,6 +42,9 @@ def text_report(r: Result) -> str:
         out.append(f"\nBearing at {b.id} ({b.bearing_type.replace('_', ' ')}, bore {b.bore_mm:g} mm"
                    f"{', ' + b.arrangement if b.arrangement else ''}): equivalent load P = {b.equivalent_load_N:,.0f} N, "
                    f"required C = {b.required_C_N:,.0f} N  [{b.life_method}]")
+        if b.Fr_N:
+            out.append("  loads per case (application factor not applied): " + "; ".join(
+                f"{c.name} Fr {fr:,.0f} N, Fa {fa:,.0f} N" for c, fr, fa in zip(r.load_cases, b.Fr_N, b.Fa_N)))
         if b.candidates:
             out.append(table(["candidate", "d", "D", "B", "C N", "C0 N", "L10 h", "Lnm h", "s0", "verdict"],
                              [[k.designation, k.d_mm, k.D_mm, k.B_mm, k.C_N, k.C0_N, k.L10_h, k.Lnm_h, k.s0,
