@@ -228,3 +228,95 @@ def test_docs_page_loads_nothing_from_outside(page, live_server):
     assert "/api/solve" in page.content()
     assert page.outside_requests == []
     assert page.console_errors == []
+
+
+def _box(page, sel):
+    return page.locator(sel).first.bounding_box()
+
+
+def test_results_summary_first_diagrams_next_details_by_keyboard(page, live_server, artifacts):
+    _open(page, live_server)
+    verdict = page.locator("#verdict")
+    assert verdict.is_visible()
+    assert "failing" in verdict.inner_text() and "passing" in verdict.inner_text()
+    topics = page.locator("#summary tr.gov").evaluate_all("rs => rs.map(r => r.dataset.topic)")
+    for t in ("bearing.life", "bearing.static", "shaft.fatigue", "shaft.yield", "shaft.critical_speed"):
+        assert t in topics, topics
+    # reading order: summary, diagrams, reactions, bearings, every check
+    tops = [_box(page, s)["y"] for s in ("#summary", "#plot", "table.reactions", "#h-brg", "#all-checks")]
+    assert tops == sorted(tops), tops
+    # the diagrams start within about one screen below the summary, not after every table
+    assert _box(page, "#plot")["y"] - (_box(page, "#summary")["y"] + _box(page, "#summary")["height"]) < 200
+    # every source is one line until it is opened
+    heights = page.locator("#summary .srcline").evaluate_all("els => els.map(e => e.getBoundingClientRect().height)")
+    assert heights and max(heights) < 20, heights
+    # a folded family opens with the keyboard, and stays open across a live edit
+    more = page.locator("details.more").first
+    more_id = more.get_attribute("id")
+    assert more.get_attribute("open") is None
+    page.focus(f"#{more_id} > summary")
+    page.keyboard.press("Enter")
+    page.wait_for_function("(id) => document.getElementById(id).open", arg=more_id)
+    assert page.locator(f"#{more_id} table.folded tbody tr").first.is_visible()
+    before = page.locator("#all-checks").inner_text()
+    i = _first_gear(page)
+    x = page.locator(f"[name='elements[{i}].x_mm']")
+    x.fill(f"{float(x.input_value()) - 15:g}")
+    page.wait_for_function("(t) => document.getElementById('all-checks').innerText !== t", arg=before)
+    _wait_fresh(page)
+    page.wait_for_function("(id) => document.getElementById(id) && document.getElementById(id).open", arg=more_id)
+    # a one-line source opens to its full text with the keyboard
+    src = page.locator("#summary details.src").first
+    full = src.locator("summary").get_attribute("title")
+    src.locator("summary").focus()
+    page.keyboard.press("Enter")
+    assert src.locator("p").inner_text() == full
+    # the jump links work from the keyboard
+    page.focus("#summary nav.jump a[href='#h-checks']")
+    page.keyboard.press("Enter")
+    page.wait_for_function("location.hash === '#h-checks'")
+    top = page.evaluate("document.getElementById('h-checks').getBoundingClientRect().top")
+    assert 0 <= top < 200
+    assert page.console_errors == []
+
+
+@pytest.mark.parametrize("width", [1440, 1024])
+def test_results_column_fits_its_width(browser, live_server, artifacts, width):
+    ctx = browser.new_context(viewport={"width": width, "height": 1000}, device_scale_factor=1)
+    pg = ctx.new_page()
+    try:
+        _open(pg, live_server)
+        col = pg.locator(".results-col")
+        # nothing in the results column is wider than the column (no sideways scrolling)
+        wide = pg.evaluate("""() => [...document.querySelectorAll('.results-col .tablewrap')]
+            .filter(w => w.scrollWidth > w.clientWidth + 1).map(w => w.querySelector('table').className)""")
+        assert wide == [], wide
+        # value and limit never split from their unit
+        split = pg.evaluate("""() => [...document.querySelectorAll('.results-col td.n .val')]
+            .filter(e => e.getClientRects().length > 1 || e.getBoundingClientRect().height > 20).map(e => e.textContent)""")
+        assert split == [], split
+        pg.screenshot(path=str(artifacts / f"07-results-{width}.png"), full_page=True)
+        col.screenshot(path=str(artifacts / f"08-results-column-{width}.png"))
+    finally:
+        ctx.close()
+
+
+def test_failing_check_goes_to_the_top_after_an_edit(page, live_server, artifacts):
+    _open(page, live_server)
+    life = page.locator("[name='requirements.life_h']")
+    life.fill("5000000")  # far beyond what the demo's bearings give: their life checks fail
+    page.wait_for_selector("#verdict.v-fail")
+    _wait_fresh(page)
+    assert "fail" in page.locator("#verdict strong").inner_text()
+    first = page.locator("#summary tr.gov").first
+    assert "st-fail" in first.get_attribute("class")
+    assert first.get_attribute("data-topic") == "bearing.life"
+    statuses = page.locator("#summary tr.gov").evaluate_all(
+        "rs => rs.map(r => ['st-fail', 'st-warn', 'st-ok'].findIndex(c => r.classList.contains(c)))")
+    assert statuses == sorted(statuses)
+    fams = page.locator("#all-checks section.family").evaluate_all("s => s.map(x => x.dataset.family)")
+    assert fams[0] == "bearings"
+    # the failing rows are shown, not folded
+    shown = page.locator("#fam-bearings > .tablewrap tr.st-fail")
+    assert shown.count() >= 1 and shown.first.is_visible()
+    page.screenshot(path=str(artifacts / "09-results-failing.png"), full_page=True)
