@@ -27,7 +27,7 @@ from pathlib import Path
 import numpy as np
 
 from engine.bearings.axial import (DEFAULT_CONTACT_ANGLE_DEG, DEFAULT_TAPERED_Y, SOURCE_INDUCED,
-                                   AxialSplit, induced_ratio, resolve_axial)
+                                   AxialSplit, check_contact_angles, induced_ratio, resolve_axial)
 from engine.bearings.candidates import LIFE_CAP_H, Screen, rank, screen_rows, smallest_by_series
 from engine.bearings.catalogue import (BUNDLED_PATH, Catalogue, bundled_catalogue, load_catalogue,
                                        parse_catalogue)
@@ -141,6 +141,7 @@ def rate_bearings(design: Design, *, Fr_N: np.ndarray, Fa_ext_N: np.ndarray,
     engine.model.EngineError
         From the axial resolution, or a lubricant outside the viscosity relation.
     """
+    check_contact_angles(design)  # before the first-pass induced ratios look the angle up
     cat = bundled_catalogue() if catalogue is None else catalogue
     Fr = np.atleast_2d(np.asarray(Fr_N, float))
     Ka = np.asarray(Fa_ext_N, float).reshape(-1)

@@ -41,7 +41,7 @@ import numpy as np
 from engine.bearings.equivalent import INDUCED_TYPES, angular_contact_factors
 from engine.model import Design, EngineError
 
-__all__ = ["AxialSplit", "resolve_axial", "induced_ratio", "pair_split", "DEFAULT_TAPERED_Y",
+__all__ = ["AxialSplit", "resolve_axial", "check_contact_angles", "induced_ratio", "pair_split", "DEFAULT_TAPERED_Y",
            "DEFAULT_CONTACT_ANGLE_DEG", "SOURCE_INDUCED"]
 
 DEFAULT_TAPERED_Y = 1.6  # first-pass Y of a tapered bearing (e ≈ 0.37, α ≈ 14°), common practice
@@ -126,6 +126,19 @@ def _names(design: Design, idx) -> str:
     return ", ".join(design.supports[i].id for i in idx)
 
 
+def check_contact_angles(design: Design) -> None:
+    """Raise EngineError at ``supports[i].contact_angle_deg`` for an angular contact bearing
+    whose contact angle lies outside the 20–45° of the factor table (ISO 281 Table 3 rows
+    as tabulated in :mod:`engine.bearings.equivalent`)."""
+    for i, s in enumerate(design.supports):
+        a = s.contact_angle_deg
+        if s.bearing_type == "angular_contact_ball" and a is not None and not (20.0 <= a <= 45.0):
+            raise EngineError.at(
+                f"supports[{i}].contact_angle_deg",
+                f"{s.id}: contact angle {a:g}° is outside 20–45°, where the load factors are tabulated "
+                "here (below 20° ISO 281 makes them depend on i·Fa/C0, not implemented); use 25° or 40°")
+
+
 def resolve_axial(design: Design, Fr_N: np.ndarray, Fa_ext_N: np.ndarray, *,
                   Y_induced: np.ndarray | None = None,
                   induced_ratios: np.ndarray | None = None) -> AxialSplit:
@@ -161,13 +174,7 @@ def resolve_axial(design: Design, Fr_N: np.ndarray, Fa_ext_N: np.ndarray, *,
     sup = design.supports
     if ns != len(sup) or Ka.size != nc:
         raise ValueError(f"Fr_N must be (n_cases, {len(sup)}) and Fa_ext_N ({nc},); got {Fr.shape}, {Ka.shape}")
-    for i, s in enumerate(sup):
-        a = s.contact_angle_deg
-        if s.bearing_type == "angular_contact_ball" and a is not None and not (20.0 <= a <= 45.0):
-            raise EngineError.at(
-                f"supports[{i}].contact_angle_deg",
-                f"{s.id}: contact angle {a:g}° is outside 20–45°, where the load factors are tabulated "
-                "here (below 20° ISO 281 makes them depend on i·Fa/C0, not implemented); use 25° or 40°")
+    check_contact_angles(design)
     roles_in = [s.axial for s in sup]
     both = [i for i, r in enumerate(roles_in) if r == "both"]
     plus = [i for i, r in enumerate(roles_in) if r == "+x"]
