@@ -13,14 +13,14 @@ from __future__ import annotations
 
 from typing import Annotated, Any, Literal, Union
 
-from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator
+from pydantic import AfterValidator, BaseModel, ConfigDict, Field, ValidationError, field_validator
 
 __all__ = [
     "FORMAT", "BEARING_TYPES", "ELEMENT_KINDS", "Issue", "DesignError", "EngineError",
     "Material", "Segment", "Groove", "Shaft", "Support",
     "Gear", "BevelGear", "Pulley", "Sprocket", "Coupling", "PointForce", "PointMoment",
     "Element", "LoadCase", "Lubricant", "Requirements", "Gravity", "Analysis", "Design",
-    "parse_design", "TORQUE_TOLERANCE",
+    "parse_design", "TORQUE_TOLERANCE", "BIG", "TINY",
 ]
 
 FORMAT = "shaft-design/1"
@@ -33,8 +33,23 @@ BearingType = Literal[
 BEARING_TYPES: tuple[str, ...] = BearingType.__args__  # type: ignore[attr-defined]
 AxialRole = Literal["both", "none", "+x", "-x"]
 
-Pos = Annotated[float, Field(gt=0)]
-NonNeg = Annotated[float, Field(ge=0)]
+# No quantity of a shaft comes near 1e15 in its unit (mm, N, rpm, MPa, ...), and none that
+# must be positive is as small as 1e-15; beyond these the solver's products (d⁴, P^(10/3),
+# speed·load^p) overflow or divide by practically zero, so such numbers are refused with
+# their key path rather than turned into NaN later.
+BIG = 1e15
+TINY = 1e-15
+
+
+def _not_tiny(v: float) -> float:
+    if v < TINY:
+        raise ValueError(f"is too small to compute with: give at least {TINY:g} (got {v!r})")
+    return v
+
+
+Num = Annotated[float, Field(ge=-BIG, le=BIG)]
+Pos = Annotated[float, Field(gt=0, le=BIG), AfterValidator(_not_tiny)]
+NonNeg = Annotated[float, Field(ge=0, le=BIG)]
 
 
 class _Doc(BaseModel):
@@ -147,7 +162,7 @@ class _Element(_Doc):
 
 
 class _Driving(_Element):
-    torque_Nm: float | None = None
+    torque_Nm: Num | None = None
 
 
 class Gear(_Driving):
@@ -156,8 +171,8 @@ class Gear(_Driving):
     pressure_angle_deg: Annotated[float, Field(gt=0, lt=45)] = 20.0
     helix_angle_deg: Annotated[float, Field(ge=0, lt=60)] = 0.0
     hand: Literal["right", "left"] | None = None
-    mesh_angle_deg: float = 0.0
-    mate_slope_rad: float | None = None  # slope of the mating gear's shaft at the mesh, if known
+    mesh_angle_deg: Num = 0.0
+    mate_slope_rad: Num | None = None  # slope of the mating gear's shaft at the mesh, if known
 
 
 class BevelGear(_Driving):
@@ -166,22 +181,22 @@ class BevelGear(_Driving):
     pressure_angle_deg: Annotated[float, Field(gt=0, lt=45)] = 20.0
     pitch_cone_angle_deg: Annotated[float, Field(gt=0, lt=90)]
     apex: Literal["+x", "-x"]
-    mesh_angle_deg: float = 0.0
+    mesh_angle_deg: Num = 0.0
 
 
 class Pulley(_Driving):
     kind: Literal["pulley"] = "pulley"
     pitch_d_mm: Pos
-    strand_angle_deg: float = 0.0
+    strand_angle_deg: Num = 0.0
     wrap_angle_deg: Annotated[float, Field(gt=0, le=360)] = 180.0
-    tension_ratio: Annotated[float, Field(gt=1)] | None = None
+    tension_ratio: Annotated[float, Field(gt=1, le=BIG)] | None = None
     pull_factor: Pos | None = None
 
 
 class Sprocket(_Driving):
     kind: Literal["sprocket"] = "sprocket"
     pitch_d_mm: Pos
-    strand_angle_deg: float = 0.0
+    strand_angle_deg: Num = 0.0
     wrap_angle_deg: Annotated[float, Field(gt=0, le=360)] = 180.0
 
 
@@ -191,17 +206,17 @@ class Coupling(_Driving):
 
 class PointForce(_Element):
     kind: Literal["force"] = "force"
-    Fx_N: float = 0.0
-    Fy_N: float = 0.0
-    Fz_N: float = 0.0
-    arm_y_mm: float = 0.0
-    arm_z_mm: float = 0.0
+    Fx_N: Num = 0.0
+    Fy_N: Num = 0.0
+    Fz_N: Num = 0.0
+    arm_y_mm: Num = 0.0
+    arm_z_mm: Num = 0.0
 
 
 class PointMoment(_Element):
     kind: Literal["moment"] = "moment"
-    My_Nm: float = 0.0
-    Mz_Nm: float = 0.0
+    My_Nm: Num = 0.0
+    Mz_Nm: Num = 0.0
 
 
 Element = Annotated[
@@ -218,9 +233,9 @@ class LoadCase(_Doc):
     name: str = Field(min_length=1, max_length=60)
     time_fraction: Annotated[float, Field(gt=0, le=1)] = 1.0
     speed_rpm: Pos
-    torque_factor: float = 1.0
-    force_factor: float = 1.0
-    torques_Nm: dict[str, float] = {}
+    torque_factor: Num = 1.0
+    force_factor: Num = 1.0
+    torques_Nm: dict[str, Num] = {}
     torque_alternating_pct: Annotated[float, Field(ge=0, le=1000)] = 0.0  # alternating torque amplitude, % of the steady torque
 
 
@@ -234,7 +249,7 @@ class Requirements(_Doc):
     life_h: Pos = 20000.0
     reliability_pct: Annotated[float, Field(ge=90, lt=100)] = 90.0
     reliability_method: Literal["iso281", "weibull"] = "iso281"
-    application_factor: Annotated[float, Field(ge=1)] = 1.0
+    application_factor: Annotated[float, Field(ge=1, le=BIG)] = 1.0
     s0_min: Pos = 1.0
     lubricant: Lubricant | None = None
     contamination_ec: Annotated[float, Field(ge=0, le=1)] | None = None
@@ -304,7 +319,11 @@ def _message(err: dict) -> str:
         word = {"greater_than": "greater than", "greater_than_equal": "at least",
                 "less_than": "less than", "less_than_equal": "at most"}[t]
         bound = next(iter(ctx.values())) if ctx else "?"
+        if isinstance(bound, float) and abs(bound) >= 1e6:
+            bound = f"{bound:g}"  # 1e+15, not 1000000000000000.0
         return f"'{field}' must be {word} {bound}, got {err.get('input')!r}"
+    if t == "value_error":
+        return f"'{field}' {err['msg'].removeprefix('Value error, ')}"
     if t == "finite_number":
         return f"'{field}' must be a finite number, got {err.get('input')!r}"
     if t in ("float_parsing", "float_type", "int_parsing", "int_type", "int_from_float"):

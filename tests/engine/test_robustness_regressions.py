@@ -44,3 +44,54 @@ def test_angular_contact_angle_outside_table_is_a_design_error():
         engine.solve(doc)
     assert exc.value.errors[0].path == "supports[0].contact_angle_deg"
     assert "20–45°" in exc.value.errors[0].message
+
+
+@pytest.mark.parametrize("path, value", [
+    (("shaft", "segments", 0, "length_mm"), 1e300),   # was ValueError in np.linspace (mesh count overflow)
+    (("shaft", "segments", 3, "d_mm"), 1e300),        # was NaN reactions (d⁴ overflow)
+    (("shaft", "material", "Su_MPa"), 1e300),         # was OverflowError in the S–N line
+    (("shaft", "material", "E_GPa"), 1e300),          # was NaN reactions
+    (("shaft", "material", "density_kg_m3"), 1e300),  # was inf equivalent load (weight)
+    (("elements", 1, "torque_Nm"), -1e300),           # was inf equivalent load
+    (("elements", 1, "mass_kg"), 1e300),
+    (("load_cases", 0, "speed_rpm"), 1e300),          # was inf mean load (speed · P^p)
+    (("load_cases", 0, "torque_factor"), -1e300),
+    (("requirements", "application_factor"), 1e300),
+])
+def test_numbers_beyond_1e15_are_refused_with_their_path(path, value):
+    doc = _demo()
+    c = doc
+    for p in path[:-1]:
+        c = c[p]
+    c[path[-1]] = value
+    issues = _issues(doc)
+    want = ".".join(str(p) for p in path).replace(".0.", "[0].").replace(".1.", "[1].").replace(".3.", "[3].")
+    assert issues[0][0] == want, issues
+    assert "at most 1e+15" in issues[0][1] or "at least -1e+15" in issues[0][1], issues
+
+
+@pytest.mark.parametrize("path", [
+    ("elements", 1, "pitch_d_mm"),          # was NaN reactions (force = torque / 1e-300)
+    ("shaft", "material", "Su_MPa"),        # was NaN smallest diameter
+    ("shaft", "material", "Sy_MPa"),
+])
+def test_positive_numbers_below_1e_15_are_refused_with_their_path(path):
+    doc = _demo()
+    c = doc
+    for p in path[:-1]:
+        c = c[p]
+    c[path[-1]] = 1e-300
+    issues = _issues(doc)
+    assert issues[0][0] == ".".join(str(p) for p in path).replace(".1.", "[1]."), issues
+    assert "too small to compute with" in issues[0][1]
+
+
+def test_tiny_and_huge_but_sane_numbers_still_solve():
+    """The bounds leave every number from 1e-12 to 1e12 alone (no behaviour change there)."""
+    doc = _demo()
+    doc["elements"][1]["pitch_d_mm"] = 1e-12
+    assert _finite(engine.solve(doc))
+    doc = _demo()
+    doc["supports"][1]["radial_stiffness_N_per_mm"] = 1e12
+    doc["shaft"]["material"]["Sy_MPa"] = 1e-12
+    assert _finite(engine.solve(doc))
