@@ -8,6 +8,8 @@ Units inside: mm, N, N·mm; the result carries N·m for moments as the contract 
 """
 from __future__ import annotations
 
+import math
+import re
 from dataclasses import asdict
 from typing import Any
 
@@ -18,7 +20,7 @@ from engine.checks import shaft_checks, sort_checks
 from engine.bearings import Catalogue, rate_bearings
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_mesh, solve_bending
 from engine.loads import CaseLoads, case_loads
-from engine.model import Design, parse_design
+from engine.model import Design, EngineError, parse_design
 from engine.result import (CaseResult, Diagrams, ElementForces, Result, ShaftSection,
                            ShaftSummary, SupportReaction)
 
@@ -77,8 +79,53 @@ def _diagrams(a: Analysis) -> Diagrams:
             "uy_mm": uy, "uz_mm": uz, "u_mm": np.hypot(uy, uz),
             "slope_y_rad": sy, "slope_z_rad": sz, "slope_rad": np.hypot(sy, sz),
         }
+        for k, v in series.items():
+            if not np.all(np.isfinite(v)):
+                raise _overflow(f"load_cases[{j}]", f"diagrams.load_cases.{case.name}.{k}", "not finite")
         out[case.name] = {k: v.tolist() for k, v in series.items()}
     return Diagrams(x_mm=x.tolist(), load_cases=out)
+
+
+def _overflow(design_path: str, result_path: str, value: Any) -> EngineError:
+    return EngineError.at(
+        design_path,
+        f"the solution overflowed ({result_path} came out {value}): a size, force, speed, stiffness "
+        "or factor of this design is far outside what a real shaft sees; check the magnitudes here")
+
+
+def _non_finite(obj: Any, path: str = "") -> tuple[str, float] | None:
+    """(path, value) of the first NaN or infinite float in a dumped result, or None."""
+    if isinstance(obj, float):
+        return None if math.isfinite(obj) else (path, obj)
+    if isinstance(obj, dict):
+        items = obj.items()
+    elif isinstance(obj, list):
+        items = ((f"[{i}]", v) for i, v in enumerate(obj))
+    else:
+        return None
+    for k, v in items:
+        hit = _non_finite(v, f"{path}{k}" if str(k).startswith("[") else (f"{path}.{k}" if path else str(k)))
+        if hit is not None:
+            return hit
+    return None
+
+
+def _check_finite(design: Design, result: Result) -> None:
+    """Backstop: a result holds finite numbers only, or the solve is an EngineError that names
+    the part of the design it concerns (the web layer and JSON cannot carry NaN or infinity)."""
+    hit = _non_finite(result.model_dump(exclude={"diagrams"}))
+    if hit is None:
+        return
+    where, value = hit
+    m = re.match(r"(load_cases|bearings)\[(\d+)\]", where)
+    if m and m.group(1) == "load_cases":
+        design_path = m.group(0)
+    elif m:
+        sid = result.bearings[int(m.group(2))].id
+        design_path = next((f"supports[{i}]" for i, s in enumerate(design.supports) if s.id == sid), "supports")
+    else:
+        design_path = "shaft"
+    raise _overflow(design_path, where, value)
 
 
 def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | None = None) -> Result:
@@ -88,7 +135,8 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
     ``catalogue`` is a bearing table of the user's (default: the bundled illustrative one).
 
     Raises :class:`engine.model.DesignError` (bad input) or :class:`EngineError` (a design
-    that cannot be solved as laid out), each listing the key paths at fault.
+    that cannot be solved as laid out, or whose numbers overflow: a result never holds NaN or
+    infinity), each listing the key paths at fault.
     """
     design = parse_design(design_data)
     a = analyse(design)
@@ -116,10 +164,12 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
             max_deflection_mm=float(u_res[j, k]), max_deflection_x_mm=float(a.mesh.x_mm[k]),
         ))
     mass = float(np.sum(a.mesh.A_mm2 * a.mesh.le_mm)) * design.shaft.material.density_kg_m3 * 1e-9
-    return Result(
+    result = Result(
         engine_version=engine.__version__, load_cases=cases, bearings=rated.bearings,
         checks=sort_checks(rated.checks + sc.checks), warnings=rated.warnings,
         shaft=ShaftSummary(max_deflection_mm=float(u_res.max()), mass_kg=mass, length_mm=design.shaft.length_mm,
                            sections=[ShaftSection(**asdict(x)) for x in sc.sections], **sc.summary()),
         diagrams=_diagrams(a) if diagrams else Diagrams(x_mm=[], load_cases={}),
     )
+    _check_finite(design, result)
+    return result

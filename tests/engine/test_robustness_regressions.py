@@ -95,3 +95,37 @@ def test_tiny_and_huge_but_sane_numbers_still_solve():
     doc["supports"][1]["radial_stiffness_N_per_mm"] = 1e12
     doc["shaft"]["material"]["Sy_MPa"] = 1e-12
     assert _finite(engine.solve(doc))
+
+
+def test_a_non_finite_result_becomes_an_engine_error(monkeypatch):
+    """Backstop: whatever still overflows inside the engine gives an EngineError naming the part
+    of the design, never NaN in the result (JSON cannot carry it; the API answered 500)."""
+    import numpy as np
+
+    from engine import strength
+
+    real = strength.min_diameter
+    monkeypatch.setattr(strength, "min_diameter", lambda **kw: real(**kw) * np.nan)
+    with pytest.raises(engine.EngineError) as exc:
+        engine.solve(_demo())
+    issue = exc.value.errors[0]
+    assert issue.path == "shaft" and "d_min_mm" in issue.message and "overflowed" in issue.message
+
+
+def test_a_non_finite_diagram_becomes_an_engine_error_at_its_load_case(monkeypatch):
+    import numpy as np
+
+    import sys
+
+    solve_module = sys.modules["engine.solve"]  # the package re-exports the function under that name
+    real = solve_module.axial_and_torque
+
+    def poisoned(*args, **kw):
+        N, T = real(*args, **kw)
+        return N, T * np.inf
+
+    monkeypatch.setattr(solve_module, "axial_and_torque", poisoned)
+    with pytest.raises(engine.EngineError) as exc:
+        engine.solve(_demo())
+    assert exc.value.errors[0].path == "load_cases[0]"
+    assert "diagrams.load_cases.rated.T_Nm" in exc.value.errors[0].message
