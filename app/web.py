@@ -283,7 +283,7 @@ def _read_obj(form: Mapping[str, str], prefix: str, fields: Iterable[Field], sys
             extra = json.loads(raw_extra)
             if isinstance(extra, dict):
                 obj.update(extra)
-        except json.JSONDecodeError:
+        except (ValueError, RecursionError):  # not JSON, or nested past the parser's depth
             pass
     for f in fields:
         path = prefix + f.key

@@ -129,3 +129,26 @@ def test_a_non_finite_diagram_becomes_an_engine_error_at_its_load_case(monkeypat
         engine.solve(_demo())
     assert exc.value.errors[0].path == "load_cases[0]"
     assert "diagrams.load_cases.rated.T_Nm" in exc.value.errors[0].message
+
+
+# --- web layer ---------------------------------------------------------------------------
+
+@pytest.fixture
+def client(tmp_path, monkeypatch):
+    monkeypatch.setenv("SHAFTWRIGHT_DB", str(tmp_path / "regressions.db"))
+    from fastapi.testclient import TestClient
+
+    from app.main import create_app
+
+    with TestClient(create_app(), raise_server_exceptions=False) as c:
+        yield c
+
+
+def test_editor_form_with_unparseable_extra_keys(client):
+    """Was 500: a hidden _extra field nested past the JSON parser's depth raised RecursionError."""
+    from app.web import design_to_form
+
+    form = design_to_form(load_sample("countershaft.json"))
+    form["shaft._extra"] = "[" * 100_000
+    r = client.post("/editor/solve", data=form)
+    assert r.status_code == 200, r.text[:300]
