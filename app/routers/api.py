@@ -10,15 +10,18 @@
 from __future__ import annotations
 
 import json
+import logging
 from typing import Any
 
 from fastapi import APIRouter, Request
 from fastapi.responses import HTMLResponse, JSONResponse
 
 import engine
+from app.limits import LimitError, read_json
 
 __all__ = ["router", "solve_document"]
 
+log = logging.getLogger("shaftwright.api")
 router = APIRouter()
 
 _DESIGN_EXAMPLE = {
@@ -31,16 +34,24 @@ _DESIGN_EXAMPLE = {
 }
 
 
-def _errors(issues: list[engine.Issue]) -> JSONResponse:
-    return JSONResponse(status_code=422, content={"errors": [{"path": i.path, "message": i.message} for i in issues]})
+def _errors(issues: list[engine.Issue], status_code: int = 422) -> JSONResponse:
+    return JSONResponse(status_code=status_code,
+                        content={"errors": [{"path": i.path, "message": i.message} for i in issues]})
 
 
 def solve_document(data: Any) -> tuple[int, dict]:
-    """Solve a design mapping: (200, result document) or (422, {"errors": [...]})."""
+    """Solve a design mapping: (200, result document) or (422, {"errors": [...]}).
+
+    An engine fault (a bug, not bad input) is logged and answered like the editor answers it,
+    as a message at the design's root, so that a client always gets an errors list."""
     try:
         result = engine.solve(data)
     except engine.DesignError as exc:
         return 422, {"errors": [{"path": i.path, "message": i.message} for i in exc.errors]}
+    except Exception as exc:  # noqa: BLE001 - never a bare 500 for a design
+        log.exception("engine failed")
+        return 422, {"errors": [{"path": "", "message": "the engine could not solve this design "
+                                                       f"({type(exc).__name__}: {exc})"}]}
     return 200, result.model_dump(mode="json")
 
 
@@ -56,11 +67,10 @@ def solve_document(data: Any) -> tuple[int, dict]:
 )
 async def api_solve(request: Request) -> JSONResponse:
     """A design document in, a result document out (422 with key paths for bad input)."""
-    body = await request.body()
     try:
-        data = json.loads(body or b"null")
-    except (json.JSONDecodeError, UnicodeDecodeError) as exc:
-        return _errors([engine.Issue(path="", message=f"the request body is not valid JSON ({exc})")])
+        data = await read_json(request)  # size, depth and count limits; JSON without NaN
+    except LimitError as exc:
+        return _errors(exc.errors, exc.status_code)
     code, doc = solve_document(data)
     return JSONResponse(status_code=code, content=doc)
 

@@ -144,6 +144,28 @@ def client(tmp_path, monkeypatch):
         yield c
 
 
+@pytest.mark.parametrize("body, status", [
+    (b"[" * 100_000, 422),          # was 500: RecursionError in json.loads
+    (b'{"shaft": NaN}', 422),       # NaN is refused as JSON, not passed on
+    (b'{"name": "' + b"x" * 1_100_000 + b'"}', 413),  # the byte limit now applies to /api/solve
+])
+def test_api_solve_applies_the_document_limits(client, body, status):
+    r = client.post("/api/solve", content=body, headers={"content-type": "application/json"})
+    assert r.status_code == status, r.text[:200]
+    assert r.json()["errors"][0]["path"] == ""
+
+
+def test_api_solve_answers_an_engine_fault_with_an_errors_list(client, monkeypatch):
+    """Was a bare 500 for any exception but DesignError; now 422 with the fault in words."""
+    import sys
+
+    monkeypatch.setattr(sys.modules["engine.solve"], "shaft_checks",
+                        lambda a: (_ for _ in ()).throw(ZeroDivisionError("boom")))
+    r = client.post("/api/solve", json=load_sample("countershaft.json"))
+    assert r.status_code == 422
+    assert "ZeroDivisionError" in r.json()["errors"][0]["message"]
+
+
 def test_editor_form_with_unparseable_extra_keys(client):
     """Was 500: a hidden _extra field nested past the JSON parser's depth raised RecursionError."""
     from app.web import design_to_form
