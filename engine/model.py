@@ -21,6 +21,7 @@ __all__ = [
     "Gear", "BevelGear", "Pulley", "Sprocket", "Coupling", "PointForce", "PointMoment",
     "Element", "LoadCase", "Lubricant", "Requirements", "Gravity", "Analysis", "Design",
     "parse_design", "TORQUE_TOLERANCE", "BIG", "TINY",
+    "MAX_SEGMENTS", "MAX_GROOVES", "MAX_SUPPORTS", "MAX_ELEMENTS", "MAX_LOAD_CASES",
 ]
 
 FORMAT = "shaft-design/1"
@@ -48,6 +49,12 @@ def _not_tiny(v: float) -> float:
 
 
 Num = Annotated[float, Field(ge=-BIG, le=BIG)]
+
+# Counts far beyond any real arrangement, small enough that one design cannot tie the solver
+# up: the bending solve is dense in the node count, and the diagrams grow with cases × nodes.
+# At these limits, with analysis.elements = 2000, a solve takes about 10 s and 0.7 GB here;
+# without them 500 bearings and 500 load cases took 50 s and 3 GB.
+MAX_SEGMENTS, MAX_GROOVES, MAX_SUPPORTS, MAX_ELEMENTS, MAX_LOAD_CASES = 500, 200, 50, 200, 100
 Pos = Annotated[float, Field(gt=0, le=BIG), AfterValidator(_not_tiny)]
 NonNeg = Annotated[float, Field(ge=0, le=BIG)]
 
@@ -111,8 +118,8 @@ class Segment(_Doc):
 
 class Shaft(_Doc):
     material: Material = Material()
-    segments: list[Segment] = Field(min_length=1)
-    grooves: list[Groove] = []
+    segments: list[Segment] = Field(min_length=1, max_length=MAX_SEGMENTS)
+    grooves: list[Groove] = Field(default=[], max_length=MAX_GROOVES)
 
     @property
     def length_mm(self) -> float:
@@ -281,9 +288,9 @@ class Design(_Doc):
     name: str = Field(default="untitled shaft", max_length=200)
     notes: str = Field(default="", max_length=20000)
     shaft: Shaft
-    supports: list[Support]
-    elements: list[Element] = []
-    load_cases: list[LoadCase] = Field(min_length=1)
+    supports: list[Support] = Field(max_length=MAX_SUPPORTS)
+    elements: list[Element] = Field(default=[], max_length=MAX_ELEMENTS)
+    load_cases: list[LoadCase] = Field(min_length=1, max_length=MAX_LOAD_CASES)
     requirements: Requirements = Requirements()
     gravity: Gravity | None = Gravity()
     analysis: Analysis = Analysis()
@@ -338,7 +345,9 @@ def _message(err: dict) -> str:
     if t == "too_short":
         return f"'{field}' needs at least {ctx.get('min_length')} entr{'y' if ctx.get('min_length') == 1 else 'ies'}"
     if t == "too_long":
-        return f"'{field}' is too long (at most {ctx.get('max_length')})"
+        n = ctx.get("actual_length")
+        return (f"'{field}' has {n} entries; at most {ctx.get('max_length')} are accepted" if n is not None
+                else f"'{field}' is too long (at most {ctx.get('max_length')})")
     return f"'{field}': {err['msg']}"
 
 

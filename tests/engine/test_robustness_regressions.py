@@ -174,3 +174,18 @@ def test_editor_form_with_unparseable_extra_keys(client):
     form["shaft._extra"] = "[" * 100_000
     r = client.post("/editor/solve", data=form)
     assert r.status_code == 200, r.text[:300]
+
+
+@pytest.mark.parametrize("key, n", [("supports", 51), ("elements", 201), ("load_cases", 101)])
+def test_counts_that_would_tie_the_solver_up_are_refused(key, n):
+    """Was a 50 s, 3 GB solve (500 bearings × 500 load cases at 2000 elements, a 100 kB
+    document the web limits let through); now a DesignError at the list's path."""
+    doc = _demo()
+    if key == "supports":
+        doc["supports"] = [{"id": f"S{i}", "x_mm": 300.0 * i / n, "bearing_type": None} for i in range(n)]
+    elif key == "elements":
+        doc["elements"] = [{"id": f"F{i}", "kind": "force", "x_mm": 1.0 + i, "Fy_N": -10} for i in range(n)]
+    else:
+        doc["load_cases"] = [{"name": f"c{i}", "speed_rpm": 100, "time_fraction": 1 / n} for i in range(n)]
+    issues = _issues(doc)
+    assert (key, f"'{key}' has {n} entries; at most {n - 1} are accepted") in issues
