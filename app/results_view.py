@@ -68,17 +68,17 @@ def margin(check: Any) -> float:
     return v / lim - 1.0 if check.code in AT_LEAST_CODES else 1.0 - v / lim
 
 
-def _clauses(text: str) -> list[str]:
-    """``text`` split at "; " outside parentheses."""
-    out, depth, start = [], 0, 0
-    for i, ch in enumerate(text):
-        depth += ch == "("
-        depth -= ch == ")" and depth > 0
-        if depth == 0 and text.startswith("; ", i):
-            out.append(text[start:i])
-            start = i + 2
-    out.append(text[start:])
-    return out
+def _first_clause(text: str) -> str:
+    """``text`` up to the first "; " outside parentheses."""
+    start = 0
+    while True:
+        i = text.find("; ", start)
+        if i < 0:
+            return text
+        head = text[:i]
+        if head.count("(") <= head.count(")"):
+            return head
+        start = i + 2
 
 
 def _drop_trailing_brackets(text: str) -> str:
@@ -101,12 +101,14 @@ def short_source(text: str, n: int = SOURCE_CHARS) -> str:
     nothing was.
 
     >>> short_source("ISO 76:2006 cl. 6 and Table 1 (values as recalled; verify); s0 = C0/P0")
-    'ISO 76:2006 cl. 6 and Table 1 …'
+    'ISO 76:2006 cl. 6 and Table 1 (values as recalled; verify) …'
+    >>> short_source("Shigley, Mechanical Engineering Design, 9th ed., Table 7-2 (memory)")
+    'Shigley, Mechanical Engineering Design, 9th ed., Table 7-2 …'
     >>> short_source("common practice")
     'common practice'
     """
     t = " ".join((text or "").split())
-    head = _clauses(t)[0]
+    head = _first_clause(t)
     if len(head) > n:
         bare = _drop_trailing_brackets(head)
         head = bare if bare and len(bare) <= n else (head[:n].rsplit(" ", 1)[0] or head[:n]).rstrip(",;:( ")
@@ -134,6 +136,8 @@ class CheckRow:
     cases: tuple[str, ...] = ()
     family: str = "other"
     margin: float = 0.0
+    source_short: str = ""  # one line of the source (:func:`short_source`)
+    source_cut: bool = False  # the line may leave something out: the page offers the full text
 
     @property
     def status(self) -> str:
@@ -158,17 +162,6 @@ class CheckRow:
         return short_where(self.check.where)
 
     @property
-    def source_short(self) -> str:
-        return short_source(self.check.source)
-
-    @property
-    def source_cut(self) -> bool:
-        """True when the one-line source may leave something out, cut here or by the page's
-        width: the page then offers the full text on expand as well as on hover."""
-        full = " ".join((self.check.source or "").split())
-        return self.source_short != full or len(full) > SOURCE_PLAIN
-
-    @property
     def sort_key(self) -> tuple[int, float]:
         return (RANK.get(self.status, 3), self.margin)
 
@@ -188,8 +181,11 @@ def merge_cases(checks: Iterable[Any], case_order: Sequence[str] = ()) -> list[C
         cases = sorted({m.load_case for m in members if m.load_case},
                        key=lambda n: (pos.get(n, len(pos)), n))
         first = members[0]
+        full = " ".join((first.source or "").split())
+        short = short_source(full)
         rows.append(CheckRow(check=first, cases=tuple(cases), family=family_of(first.code),
-                             margin=margin(first)))
+                             margin=margin(first), source_short=short,
+                             source_cut=short != full or len(full) > SOURCE_PLAIN))
     return rows
 
 

@@ -102,3 +102,9 @@ def test_governing_not_covered_failure_is_named():
                   value=9000.0, limit=7700.0, unit="rpm", where="A", source="bearing table")
     v = rv.results_view(res.model_copy(update={"checks": [*res.checks, extra]}))
     assert v.governing[0].topic == "bearing.speed" and v.governing[0].status == "fail"
+
+
+def test_doctests():
+    import doctest
+
+    assert doctest.testmod(rv).failed == 0
