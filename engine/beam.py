@@ -23,14 +23,15 @@ the left: N(x) = −Σ_left Fx (tension positive), T(x) = Σ_left torque.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
+from typing import Sequence
 
 import numpy as np
 
 from engine.model import Design, EngineError
 
-__all__ = ["Mesh", "build_mesh", "section_properties", "shear_coefficient", "bending_stiffness",
-           "BeamSolution", "solve_bending", "axial_and_torque"]
+__all__ = ["Mesh", "build_mesh", "stack_meshes", "section_properties", "shear_coefficient", "assemble",
+           "bending_stiffness", "BeamSolution", "solve_bending", "axial_and_torque"]
 
 
 @dataclass(frozen=True)
@@ -39,6 +40,7 @@ class Mesh:
 
     x_mm (N,) node positions; per element (N−1,): le_mm, d_mm, bore_mm, A_mm2, I_mm4, J_mm4;
     support_nodes / element_nodes: node index of each support / element (design order).
+    A stack of meshes (:func:`stack_meshes`) has the same fields with a leading axis.
     """
 
     x_mm: np.ndarray
@@ -53,7 +55,7 @@ class Mesh:
 
     @property
     def n_nodes(self) -> int:
-        return self.x_mm.size
+        return self.x_mm.shape[-1]
 
 
 def section_properties(d_mm: np.ndarray, bore_mm: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -81,11 +83,15 @@ def build_mesh(design: Design, *, extra_x_mm: tuple[float, ...] = ()) -> Mesh:
     L = edges[-1]
     keys = np.concatenate([edges, [s.x_mm for s in design.supports], [e.x_mm for e in design.elements],
                            [g.x_mm for g in shaft.grooves], np.asarray(extra_x_mm, float)])
-    keys = np.unique(np.round(keys[(keys >= 0) & (keys <= L)], 9))
+    keys = np.sort(np.round(keys[(keys >= 0) & (keys <= L)], 9))
+    keys = keys[np.concatenate([[True], keys[1:] != keys[:-1]])]  # distinct, ascending
     h = L / design.analysis.elements
     spans = np.diff(keys)
     parts = np.maximum(1, np.ceil(spans / h - 1e-9)).astype(int)
-    x = np.concatenate([np.linspace(a, b, n, endpoint=False) for a, b, n in zip(keys[:-1], keys[1:], parts)] + [[L]])
+    # interval k in parts[k] equal steps, x = a + i·(b − a)/n, i = 0 … n−1 (numpy.linspace's
+    # arithmetic with endpoint=False, for all intervals at once), then the end of the shaft
+    i = np.arange(parts.sum(), dtype=float) - np.repeat(np.cumsum(parts) - parts, parts)
+    x = np.concatenate([i * np.repeat(spans / parts, parts) + np.repeat(keys[:-1], parts), [L]])
     mid = 0.5 * (x[:-1] + x[1:])
     seg = np.clip(np.searchsorted(edges, mid, side="right") - 1, 0, len(shaft.segments) - 1)
     d = np.array([s.d_mm for s in shaft.segments])[seg]
@@ -98,10 +104,12 @@ def build_mesh(design: Design, *, extra_x_mm: tuple[float, ...] = ()) -> Mesh:
 
 
 def _element_stiffness(mesh: Mesh, E: float, G: float, nu: float, shear: bool) -> np.ndarray:
-    """(n_el, 4, 4) Timoshenko element stiffness for DOFs (v1, θ1, v2, θ2):
+    """(…, n_el, 4, 4) Timoshenko element stiffness for DOFs (v1, θ1, v2, θ2):
 
     k = E·I/((1+Φ)·L³) · [[12, 6L, −12, 6L], [6L, (4+Φ)L², −6L, (2−Φ)L²],
                           [−12, −6L, 12, −6L], [6L, (2−Φ)L², −6L, (4+Φ)L²]]
+
+    Element-wise, so a stack of meshes (leading axis) gives a stack of element matrices.
     """
     L, EI = mesh.le_mm, E * mesh.I_mm4
     if shear:
@@ -110,12 +118,12 @@ def _element_stiffness(mesh: Mesh, E: float, G: float, nu: float, shear: bool) -
     else:
         phi = np.zeros_like(L)
     c = EI / ((1.0 + phi) * L**3)
-    k = np.empty((L.size, 4, 4))
-    k[:, 0] = np.stack([12 + 0 * L, 6 * L, -12 + 0 * L, 6 * L], 1)
-    k[:, 1] = np.stack([6 * L, (4 + phi) * L**2, -6 * L, (2 - phi) * L**2], 1)
-    k[:, 2] = -k[:, 0]
-    k[:, 3] = np.stack([6 * L, (2 - phi) * L**2, -6 * L, (4 + phi) * L**2], 1)
-    return k * c[:, None, None]
+    k = np.empty(L.shape + (4, 4))
+    k[..., 0, :] = np.stack([12 + 0 * L, 6 * L, -12 + 0 * L, 6 * L], -1)
+    k[..., 1, :] = np.stack([6 * L, (4 + phi) * L**2, -6 * L, (2 - phi) * L**2], -1)
+    k[..., 2, :] = -k[..., 0, :]
+    k[..., 3, :] = np.stack([6 * L, (2 - phi) * L**2, -6 * L, (4 + phi) * L**2], -1)
+    return k * c[..., None, None]
 
 
 def _dofs(n_el: int) -> np.ndarray:
@@ -124,18 +132,34 @@ def _dofs(n_el: int) -> np.ndarray:
     return np.hstack([2 * i, 2 * i + 1, 2 * i + 2, 2 * i + 3])
 
 
+def assemble(ke: np.ndarray, n_nodes: int) -> np.ndarray:
+    """Global matrix (…, 2N, 2N) of a chain of two-node beam elements from their matrices
+    (…, n_el, 4, 4): K[dofᵢ, dofⱼ] += kₑ[i, j] over the elements (direct stiffness method),
+    DOF order [v0, θ0, v1, θ1, …]. Leading axes are a stack of meshes with N nodes each."""
+    lead, n_el, n = ke.shape[:-3], ke.shape[-3], 2 * n_nodes
+    dof = _dofs(n_el)
+    flat = (dof[:, :, None] * n + dof[:, None, :]).ravel()
+    B = math.prod(lead)
+    flat = (np.arange(B)[:, None] * (n * n) + flat[None, :]).ravel()
+    return np.bincount(flat, weights=ke.ravel(), minlength=B * n * n).reshape(lead + (n, n))
+
+
+def stack_meshes(meshes: Sequence[Mesh]) -> Mesh:
+    """Meshes with equal node, support and element counts as one :class:`Mesh` whose arrays
+    carry a leading axis (B, …); :func:`bending_stiffness` and the element-wise functions
+    take it and return stacks."""
+    return Mesh(**{f.name: np.stack([getattr(m, f.name) for m in meshes]) for f in fields(Mesh)})
+
+
 def bending_stiffness(mesh: Mesh, *, E_MPa: float, G_MPa: float, shear: bool) -> tuple[np.ndarray, np.ndarray]:
     """Global bending stiffness (2N, 2N) and the element matrices (n_el, 4, 4).
 
-    DOF order: [v0, θ0, v1, θ1, …]. Both transverse planes use this matrix.
+    DOF order: [v0, θ0, v1, θ1, …]. Both transverse planes use this matrix. For a stack of
+    meshes (:func:`stack_meshes`) both carry its leading axis.
     """
     nu = E_MPa / (2.0 * G_MPa) - 1.0
     ke = _element_stiffness(mesh, E_MPa, G_MPa, nu, shear)
-    n = 2 * mesh.n_nodes
-    dof = _dofs(mesh.le_mm.size)
-    flat = (dof[:, :, None] * n + dof[:, None, :]).ravel()
-    K = np.bincount(flat, weights=ke.ravel(), minlength=n * n).reshape(n, n)
-    return K, ke
+    return assemble(ke, mesh.n_nodes), ke
 
 
 @dataclass(frozen=True)

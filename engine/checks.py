@@ -62,7 +62,7 @@ class Section:
     alternating stress (Kf applied) and tau_m_MPa the mean torsional stress (Kfs applied) in
     the governing case; n_fatigue, n_yield the section's safety factors (n_fatigue over the
     duty cycle when Miner's rule applies); d_min_mm the smallest diameter that meets both
-    targets in every case.
+    targets in every case (None when not computed, ``shaft_checks(min_diameter=False)``).
     """
 
     x_mm: float
@@ -79,7 +79,7 @@ class Section:
     tau_m_MPa: float
     n_fatigue: float
     n_yield: float
-    d_min_mm: float
+    d_min_mm: float | None
     load_case: str
     miner: bool = False
 
@@ -274,12 +274,18 @@ def sort_checks(checks: list[Check]) -> list[Check]:
     return sorted(checks, key=lambda c: (rank[c.status], _margin(c)))
 
 
-def shaft_checks(a) -> ShaftCheckOutcome:
+def shaft_checks(a, *, modes: dynamics.LateralModes | None = None,
+                 min_diameter: bool = True) -> ShaftCheckOutcome:
     """Every shaft check of a solved design.
 
     Parameters
     ----------
     a : :class:`engine.solve.Analysis` after the axial resolution (``a.N_N``, ``a.T_Nmm`` set)
+    modes : the design's lateral modes when the caller has them already (a study solves the
+        eigenproblems of all its variants at once, :func:`engine.dynamics.lateral_frequencies_many`);
+        default: :func:`engine.dynamics.lateral_frequencies` here
+    min_diameter : compute each section's smallest diameter (``Section.d_min_mm``, and in the
+        fatigue message); False leaves it None (a study shows no sections)
 
     Returns
     -------
@@ -333,11 +339,14 @@ def shaft_checks(a) -> ShaftCheckOutcome:
             n_f[miner] = np.maximum(duty, n_f[miner])
         jy = np.argmin(ny, axis=0)
         n_y = ny[jy, cols]
-        dmin = strength.min_diameter(
-            d_mm=np.broadcast_to(d, M.shape), bore_ratio=np.broadcast_to(bore / d, M.shape), Kf=Kf, Kfs=Kfs,
-            Kf_ax=Kfa, M_Nmm=M, T_Nmm=T, Ta_Nmm=Ta, N_N=N, Se_d_MPa=np.broadcast_to(Se, M.shape),
-            Su_MPa=mat.Su_MPa, Sy_MPa=mat.Sy_MPa, n_fatigue_target=req.fatigue_safety_min,
-            n_yield_target=req.yield_safety_min, criterion=crit).max(axis=0)
+        if min_diameter:
+            dmin = strength.min_diameter(
+                d_mm=np.broadcast_to(d, M.shape), bore_ratio=np.broadcast_to(bore / d, M.shape), Kf=Kf,
+                Kfs=Kfs, Kf_ax=Kfa, M_Nmm=M, T_Nmm=T, Ta_Nmm=Ta, N_N=N, Se_d_MPa=np.broadcast_to(Se, M.shape),
+                Su_MPa=mat.Su_MPa, Sy_MPa=mat.Sy_MPa, n_fatigue_target=req.fatigue_safety_min,
+                n_yield_target=req.yield_safety_min, criterion=crit).max(axis=0)
+        else:
+            dmin = None
         worst = np.minimum(n_f / req.fatigue_safety_min, n_y / req.yield_safety_min)
         min_sf = float(min(n_f.min(), n_y.min()))
 
@@ -350,14 +359,16 @@ def shaft_checks(a) -> ShaftCheckOutcome:
                 x_mm=s["x"], kind=s["kind"], where=where, d_mm=float(d[i]), bore_mm=float(bore[i]),
                 Kt=float(Kt[i]), Kts=float(Kts[i]), Kf=float(Kf[i]), Kfs=float(Kfs[i]), Se_MPa=float(Se[i]),
                 sigma_a_MPa=float(sa[j, i]), tau_m_MPa=float(Kfs[i] * tm[j, i]), n_fatigue=float(n_f[i]),
-                n_yield=float(n_y[i]), d_min_mm=float(dmin[i]), load_case=case_f, miner=bool(miner[i])))
+                n_yield=float(n_y[i]), d_min_mm=None if dmin is None else float(dmin[i]), load_case=case_f,
+                miner=bool(miner[i])))
             ok = n_f[i] >= req.fatigue_safety_min
             how = "over the duty cycle by Miner's rule" if miner[i] else f"for infinite life ({crit.replace('_', '–')})"
             checks.append(Check(
                 code="shaft.fatigue", status="ok" if ok else "fail",
                 message=(f"fatigue safety {n_f[i]:.3g} {how} at {where}, "
                          f"{'meets' if ok else 'below'} {req.fatigue_safety_min:g}; "
-                         f"Kf {Kf[i]:.2f}, Kfs {Kfs[i]:.2f}, Se {Se[i]:.0f} MPa, d_min {dmin[i]:.1f} mm"),
+                         f"Kf {Kf[i]:.2f}, Kfs {Kfs[i]:.2f}, Se {Se[i]:.0f} MPa"
+                         + ("" if dmin is None else f", d_min {dmin[i]:.1f} mm")),
                 value=float(n_f[i]), limit=req.fatigue_safety_min, unit="", where=where, load_case=case_f,
                 source=_FATIGUE_SRC[crit] + ("; Miner's rule, Shigley Eq. 6-57" if miner[i] else "")))
             ok = n_y[i] >= req.yield_safety_min
@@ -375,7 +386,7 @@ def shaft_checks(a) -> ShaftCheckOutcome:
 
     # dynamics ------------------------------------------------------------------------------
     try:
-        modes = dynamics.lateral_frequencies(design, n_modes=3)
+        modes = dynamics.lateral_frequencies(design, n_modes=3) if modes is None else modes
         freqs = [float(v) for v in modes.rpm if np.isfinite(v)]
         rayleigh = dynamics.rayleigh_frequency(modes) if freqs else None
     except np.linalg.LinAlgError:

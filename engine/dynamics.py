@@ -12,6 +12,8 @@ Public functions
 - :func:`generalized_eigen` — K φ = ω² M φ by a Cholesky factor and ``numpy.linalg.eigh``.
 - :func:`subspace_iteration` — the lowest few eigenpairs (used for the design's modes).
 - :func:`lateral_frequencies` — the first few lateral frequencies and mode shapes of a design.
+- :func:`lateral_frequencies_many` — the same for many designs at once (studies): one
+  stacked eigenproblem per group of equal size, numpy's linear algebra broadcast over it.
 - :func:`rayleigh_frequency` — Rayleigh's quotient with the static deflection shape.
 - :func:`torsional_frequency` — first torsional frequency of the element inertias.
 
@@ -40,15 +42,16 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Sequence
 
 import numpy as np
 
-from engine.beam import Mesh, bending_stiffness, build_mesh
+from engine.beam import Mesh, assemble, bending_stiffness, build_mesh, stack_meshes
 from engine.model import Design
 
 __all__ = ["DYNAMICS_ELEMENTS", "dynamics_mesh", "consistent_mass", "lateral_system",
-           "generalized_eigen", "subspace_iteration", "LateralModes", "lateral_frequencies", "rayleigh_frequency",
-           "torsional_frequency", "rad_s_to_rpm"]
+           "generalized_eigen", "subspace_iteration", "LateralModes", "lateral_frequencies",
+           "lateral_frequencies_many", "rayleigh_frequency", "torsional_frequency", "rad_s_to_rpm"]
 
 # Elements for the eigenproblem: about thirty consistent-mass elements give the first three
 # frequencies of the demo shafts within 0.07 % of the 120-element mesh, and keep the eigenproblem small.
@@ -76,7 +79,8 @@ def consistent_mass(mesh: Mesh, *, rho_t_mm3: float) -> np.ndarray:
 
     Parameters
     ----------
-    mesh : the beam mesh (element lengths [mm] and areas [mm²])
+    mesh : the beam mesh (element lengths [mm] and areas [mm²]); a stack of meshes
+        (:func:`engine.beam.stack_meshes`) gives a stack of matrices (B, 2N, 2N)
     rho_t_mm3 : density, [t/mm³] (kg/m³ · 10⁻¹²)
 
     References: Przemieniecki [1], Eq. 11.39 (Euler–Bernoulli beam element).
@@ -85,35 +89,44 @@ def consistent_mass(mesh: Mesh, *, rho_t_mm3: float) -> np.ndarray:
     c = rho_t_mm3 * mesh.A_mm2 * L / 420.0
     one = np.ones_like(L)
     me = np.stack([
-        np.stack([156 * one, 22 * L, 54 * one, -13 * L], 1),
-        np.stack([22 * L, 4 * L**2, 13 * L, -3 * L**2], 1),
-        np.stack([54 * one, 13 * L, 156 * one, -22 * L], 1),
-        np.stack([-13 * L, -3 * L**2, -22 * L, 4 * L**2], 1),
-    ], 1) * c[:, None, None]
-    n = 2 * mesh.n_nodes
-    i = np.arange(L.size)[:, None]
-    dof = np.hstack([2 * i, 2 * i + 1, 2 * i + 2, 2 * i + 3])
-    flat = (dof[:, :, None] * n + dof[:, None, :]).ravel()
-    return np.bincount(flat, weights=me.ravel(), minlength=n * n).reshape(n, n)
+        np.stack([156 * one, 22 * L, 54 * one, -13 * L], -1),
+        np.stack([22 * L, 4 * L**2, 13 * L, -3 * L**2], -1),
+        np.stack([54 * one, 13 * L, 156 * one, -22 * L], -1),
+        np.stack([-13 * L, -3 * L**2, -22 * L, 4 * L**2], -1),
+    ], -2) * c[..., None, None]
+    return assemble(me, mesh.n_nodes)
+
+
+def _lateral_systems(designs: Sequence[Design], mesh: Mesh) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(K, M, free) of B designs sharing a material on a stack of meshes (B, …) with the same
+    number of rigid supports: (B, n, n) each, free (B, n_free). See :func:`lateral_system`."""
+    mat = designs[0].shaft.material
+    K, _ = bending_stiffness(mesh, E_MPa=mat.E_GPa * 1e3, G_MPa=mat.G_GPa * 1e3,
+                             shear=designs[0].analysis.shear_deformation)
+    M = consistent_mass(mesh, rho_t_mm3=mat.density_kg_m3 * 1e-12)
+    keep = np.ones(K.shape[:2], dtype=bool)
+    for b, design in enumerate(designs):
+        for e, node in zip(design.elements, mesh.element_nodes[b]):
+            M[b, 2 * node, 2 * node] += e.mass_kg * 1e-3
+        for s, node in zip(design.supports, mesh.support_nodes[b]):
+            if s.radial_stiffness_N_per_mm is None:
+                keep[b, 2 * node] = False
+            else:
+                K[b, 2 * node, 2 * node] += s.radial_stiffness_N_per_mm
+    free = np.nonzero(keep)[1].reshape(len(designs), -1)
+    return K, M, free
 
 
 def lateral_system(design: Design, mesh: Mesh) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """(K, M, free): stiffness [N/mm] with support springs, mass [t] with the element masses
     lumped at their nodes, and the indices of the DOFs left free by the rigid supports."""
-    mat = design.shaft.material
-    K, _ = bending_stiffness(mesh, E_MPa=mat.E_GPa * 1e3, G_MPa=mat.G_GPa * 1e3,
-                             shear=design.analysis.shear_deformation)
-    M = consistent_mass(mesh, rho_t_mm3=mat.density_kg_m3 * 1e-12)
-    for e, node in zip(design.elements, mesh.element_nodes):
-        M[2 * node, 2 * node] += e.mass_kg * 1e-3
-    fixed = []
-    for s, node in zip(design.supports, mesh.support_nodes):
-        if s.radial_stiffness_N_per_mm is None:
-            fixed.append(2 * node)
-        else:
-            K[2 * node, 2 * node] += s.radial_stiffness_N_per_mm
-    free = np.setdiff1d(np.arange(K.shape[0]), fixed)
-    return K, M, free
+    K, M, free = _lateral_systems([design], stack_meshes([mesh]))
+    return K[0], M[0], free[0]
+
+
+def _T(A: np.ndarray) -> np.ndarray:
+    """Transpose of the last two axes (a stack of matrices)."""
+    return np.swapaxes(A, -1, -2)
 
 
 def generalized_eigen(K: np.ndarray, M: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -124,6 +137,7 @@ def generalized_eigen(K: np.ndarray, M: np.ndarray) -> tuple[np.ndarray, np.ndar
     than M keeps the lowest modes accurate when heavy lumped masses sit on a light shaft (M
     is then badly conditioned, K is not), and a massless DOF only gives λ = ∞.
     Returns (λ ascending, Φ columns M-orthonormal; columns of infinite λ left unscaled).
+    Stacks of problems (…, n, n) are solved at once (λ (…, n), Φ (…, n, n)).
 
     >>> lam, _ = generalized_eigen(np.array([[2.0, -1.0], [-1.0, 2.0]]), np.eye(2))
     >>> [round(float(v), 6) for v in lam]
@@ -131,15 +145,16 @@ def generalized_eigen(K: np.ndarray, M: np.ndarray) -> tuple[np.ndarray, np.ndar
     """
     Lc = np.linalg.cholesky(K)
     Linv = np.linalg.inv(Lc)  # triangular and small: the explicit inverse is cheap and stable here
-    B = Linv @ M @ Linv.T
-    scale = float(np.abs(B).max()) or 1.0  # eigh is markedly slower on badly scaled entries here
-    mu, psi = np.linalg.eigh((0.5 / scale) * (B + B.T))
-    mu = mu[::-1] * scale
-    phi = Linv.T @ psi[:, ::-1]
+    B = Linv @ M @ _T(Linv)
+    scale = np.abs(B).max(axis=(-2, -1), keepdims=True)
+    scale = np.where(scale > 0, scale, 1.0)  # eigh is markedly slower on badly scaled entries here
+    mu, psi = np.linalg.eigh((0.5 / scale) * (B + _T(B)))
+    mu = mu[..., ::-1] * scale[..., 0]
+    phi = _T(Linv) @ psi[..., ::-1]
     with np.errstate(divide="ignore"):
-        lam = np.where(mu > 1e-14 * mu[0], 1.0 / np.maximum(mu, 1e-300), np.inf)
-    mass = np.sum(phi * (M @ phi), axis=0)
-    phi = phi / np.sqrt(np.where(mass > 0, mass, 1.0))
+        lam = np.where(mu > 1e-14 * mu[..., :1], 1.0 / np.maximum(mu, 1e-300), np.inf)
+    mass = np.sum(phi * (M @ phi), axis=-2)
+    phi = phi / np.sqrt(np.where(mass > 0, mass, 1.0))[..., None, :]
     return lam, phi
 
 
@@ -155,34 +170,38 @@ def subspace_iteration(K: np.ndarray, M: np.ndarray, n_modes: int, *, tol: float
     dense eigensolver, whose threaded kernels stall under load. The start vectors are the mass
     diagonal and fixed pseudo-random columns (reproducible). Should the trial space collapse
     (a practically massless shaft with a single heavy mass), the full problem is solved.
+    A stack of problems (…, n, n) iterates together until every one has converged.
 
-    Returns (λ ascending (q,), Φ (n, q) M-orthonormal).
+    Returns (λ ascending (…, q), Φ (…, n, q) M-orthonormal).
     """
-    n = K.shape[0]
+    n = K.shape[-1]
     p = min(n, max(2 * n_modes, n_modes + 4))
     if p >= n:
         lam, phi = generalized_eigen(K, M)
-        return lam[:n_modes], phi[:, :n_modes]
+        return lam[..., :n_modes], phi[..., :n_modes]
     Linv = np.linalg.inv(np.linalg.cholesky(K))  # K⁻¹ = Linvᵀ·Linv
-    X = np.empty((n, p))
-    X[:, 0] = np.diag(M)
-    X[:, 1:] = np.random.default_rng(20240611).standard_normal((n, p - 1))
+    LinvT = _T(Linv)
+    X = np.empty(K.shape[:-2] + (n, p))
+    X[..., 0] = np.diagonal(M, axis1=-2, axis2=-1)
+    X[..., 1:] = np.random.default_rng(20240611).standard_normal((n, p - 1))
     old = None
     for _ in range(max_iter):
-        Y = Linv.T @ (Linv @ (M @ X))
-        Kr, Mr = Y.T @ (M @ X), Y.T @ (M @ Y)  # YᵀKY = Yᵀ(MX) since KY = MX
+        MX = M @ X
+        Y = LinvT @ (Linv @ MX)
+        Kr, Mr = _T(Y) @ MX, _T(Y) @ (M @ Y)  # YᵀKY = Yᵀ(MX) since KY = MX
         try:
-            lam, Q = generalized_eigen(0.5 * (Kr + Kr.T), 0.5 * (Mr + Mr.T))
+            lam, Q = generalized_eigen(0.5 * (Kr + _T(Kr)), 0.5 * (Mr + _T(Mr)))
         except np.linalg.LinAlgError:
             # the trial space has collapsed (few masses carry nearly all the mass, so M has
             # fewer significant directions than p): solve the full problem instead
             lam, phi = generalized_eigen(K, M)
-            return lam[:n_modes], phi[:, :n_modes]
+            return lam[..., :n_modes], phi[..., :n_modes]
         X = Y @ Q
-        if old is not None and np.all(np.abs(lam[:n_modes] - old) <= tol * np.abs(lam[:n_modes])):
+        low = lam[..., :n_modes]
+        if old is not None and np.all(np.abs(low - old) <= tol * np.abs(low)):
             break
-        old = lam[:n_modes]
-    return lam[:n_modes], X[:, :n_modes]
+        old = low
+    return lam[..., :n_modes], X[..., :n_modes]
 
 
 @dataclass(frozen=True)
@@ -199,6 +218,19 @@ class LateralModes:
     mesh: Mesh
 
 
+def _modes_of(designs: Sequence[Design], meshes: Sequence[Mesh], n_modes: int) -> list[LateralModes]:
+    """Modes of designs whose eigenproblems have one size (one stacked problem)."""
+    K, M, free = _lateral_systems(designs, stack_meshes(meshes))
+    rows = free[:, :, None]
+    b = np.arange(len(designs))[:, None, None]
+    Kf, Mf = K[b, rows, free[:, None, :]], M[b, rows, free[:, None, :]]
+    lam, phi = subspace_iteration(Kf, Mf, n_modes)
+    omega = np.sqrt(np.maximum(lam, 0.0))
+    rpm = rad_s_to_rpm(omega)
+    return [LateralModes(omega_rad_s=omega[k], rpm=rpm[k], shapes=phi[k], K=Kf[k], M=Mf[k], free=free[k],
+                         mesh=meshes[k]) for k in range(len(designs))]
+
+
 def lateral_frequencies(design: Design, *, n_modes: int = 3, mesh: Mesh | None = None) -> LateralModes:
     """The first ``n_modes`` lateral natural frequencies of the shaft on its supports.
 
@@ -210,18 +242,49 @@ def lateral_frequencies(design: Design, *, n_modes: int = 3, mesh: Mesh | None =
     n_modes : how many modes to return
     mesh : the mesh to use; default :func:`dynamics_mesh`
 
+    Raises ``numpy.linalg.LinAlgError`` when the supports do not hold the shaft (K singular).
+
     Notes
     -----
     Check: a uniform simply supported shaft gives ωₙ = (nπ/L)²·√(EI/(ρA)) (Shigley [3]
     Eq. 7-22); with the default mesh the third mode is within 0.01 %.
     """
     mesh = dynamics_mesh(design) if mesh is None else mesh
-    K, M, free = lateral_system(design, mesh)
-    Kf, Mf = K[free][:, free], M[free][:, free]
-    lam, phi = subspace_iteration(Kf, Mf, n_modes)
-    omega = np.sqrt(np.maximum(lam, 0.0))
-    return LateralModes(omega_rad_s=omega, rpm=rad_s_to_rpm(omega), shapes=phi,
-                        K=Kf, M=Mf, free=free, mesh=mesh)
+    return _modes_of([design], [mesh], n_modes)[0]
+
+
+def lateral_frequencies_many(designs: Sequence[Design], *, n_modes: int = 3) -> list[LateralModes | None]:
+    """:func:`lateral_frequencies` of many designs (default meshes), one list entry each.
+
+    Designs whose eigenproblems have the same size (nodes, rigid supports, element and support
+    counts, material and shear setting) are solved as one stack, so a study of hundreds of
+    variants makes a few calls into LAPACK instead of hundreds. The stack iterates until its
+    slowest member has converged, so a design's frequencies agree with its own
+    :func:`lateral_frequencies` to the iteration's tolerance (1e-11 relative on ω², or better).
+    None where the supports do not hold the shaft (the eigenproblem has no solution).
+    """
+    meshes = [dynamics_mesh(d) for d in designs]
+    groups: dict[tuple, list[int]] = {}
+    for k, (d, m) in enumerate(zip(designs, meshes)):
+        mat = d.shaft.material
+        key = (m.n_nodes, len(d.elements), len(d.supports),
+               sum(s.radial_stiffness_N_per_mm is None for s in d.supports),
+               mat.E_GPa, mat.G_GPa, mat.density_kg_m3, d.analysis.shear_deformation)
+        groups.setdefault(key, []).append(k)
+    out: list[LateralModes | None] = [None] * len(designs)
+    for ks in groups.values():
+        try:
+            modes = _modes_of([designs[k] for k in ks], [meshes[k] for k in ks], n_modes)
+        except np.linalg.LinAlgError:  # some member is not held: solve each alone
+            modes = []
+            for k in ks:
+                try:
+                    modes.append(_modes_of([designs[k]], [meshes[k]], n_modes)[0])
+                except np.linalg.LinAlgError:
+                    modes.append(None)
+        for k, m in zip(ks, modes):
+            out[k] = m
+    return out
 
 
 def rayleigh_frequency(modes: LateralModes) -> float:

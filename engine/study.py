@@ -46,6 +46,7 @@ from typing import Any, Iterable, Literal, Sequence
 import numpy as np
 from pydantic import BaseModel, ConfigDict
 
+from engine import dynamics
 from engine.model import BEARING_TYPES, Design, DesignError, Issue, parse_design
 from engine.result import Result
 
@@ -969,7 +970,7 @@ class _HeldRating:
     arrangement has no induced axial forces (no angular contact or tapered bearing): there the
     axial split does not depend on the rows, and a row's figures do not depend on the others,
     so the held row's life, static safety and verdict are those of the full rating.
-    ``rate`` returns None when it does not apply (the caller then runs the full rating).
+    ``rate_many`` gives None where it does not apply (the caller then runs the full rating).
     """
 
     def __init__(self, design: Design, held: dict[str, str], catalogue: Any = None):
@@ -1007,44 +1008,89 @@ class _HeldRating:
             else:
                 self.rows[s.id] = int(hit[0])
 
-    def rate(self, design: Design, a: Any) -> tuple[Any, list[Any]] | None:
-        from types import SimpleNamespace
-
-        from engine.bearings.axial import resolve_axial
-        from engine.bearings.candidates import LIFE_CAP_H, screen_rows
-
-        if not self.ok:
-            return None
-        cat, req = self.cat, design.requirements
-        split = resolve_axial(design, a.Fr_N, a.Fa_ext_N, induced_ratios=np.zeros(len(design.supports)))
-        n = np.array([c.speed_rpm for c in design.load_cases], float)
-        t = np.array([c.time_fraction for c in design.load_cases], float)
-        out = []
-        for i, s in enumerate(design.supports):
+    def _fits(self, design: Design) -> bool:
+        """The held rows still fit every bearing seat of this variant."""
+        cat = self.cat
+        for s in design.supports:
             if s.bearing_type is None:
                 continue
             r = self.rows.get(s.id)
             bore = float(s.bore_mm if s.bore_mm is not None else design.shaft.diameter_at(s.x_mm))
             if r is None or abs(cat.d_mm[r] - bore) >= 0.01 or s.contact_angle_deg is not None \
                     or (s.dimension_series and cat.series[r] not in s.dimension_series):
-                return None  # the held row no longer fits: the full rating re-selects
-            sc = screen_rows(cat, np.array([r]), bearing_type=s.bearing_type, Fr_N=a.Fr_N[:, i],
-                             Fa_N=split.Fa_N[:, i][None, :], speed_rpm=n, time_fraction=t,
-                             life_h=req.life_h, a_R=self.a_R, s0_min=req.s0_min,
-                             application_factor=float(req.application_factor), paired=False,
-                             nu_mm2_s=self.nu, ec=self.ec)
-            reasons = [w for w, flag in (("life", sc.life_ok[0]), ("static", sc.static_ok[0]),
-                                          ("speed", sc.speed_ok[0])) if not flag]
-            cand = SimpleNamespace(designation=str(cat.designation[r]), Lnm_h=float(sc.Lnm_h[0]),
-                                   L10_h=float(sc.L10_h[0]), s0=float(min(sc.s0[0], LIFE_CAP_H)),
-                                   ok=bool(sc.ok[0]), reasons=reasons)
-            out.append(SimpleNamespace(id=s.id, bearing_type=s.bearing_type, candidates=[cand]))
-        return split, out
+                return False
+        return True
+
+    def rate_many(self, designs: Sequence[Design], analyses: Sequence[Any]) -> list[tuple[Any, list[Any]] | None]:
+        """Per variant (split, bearings) of the held rows, or None where the full rating must
+        run (the held row no longer fits, or the axial resolution refuses the layout).
+
+        Variants with one bearing layout (types, axial roles, load cases) are rated together:
+        their load cases are stacked for the axial resolution (case by case, so each variant's
+        split is its own) and each support's held row is screened over all of them in one call.
+        """
+        from dataclasses import replace
+        from types import SimpleNamespace
+
+        from engine.bearings.axial import resolve_axial
+        from engine.bearings.candidates import LIFE_CAP_H, screen_rows
+
+        out: list[tuple[Any, list[Any]] | None] = [None] * len(designs)
+        if not self.ok:
+            return out
+        cat = self.cat
+        groups: dict[tuple, list[int]] = {}
+        for k, d in enumerate(designs):
+            if self._fits(d):
+                key = (tuple((s.id, s.bearing_type, s.axial) for s in d.supports),
+                       tuple((c.speed_rpm, c.time_fraction) for c in d.load_cases))
+                groups.setdefault(key, []).append(k)
+        for ks in groups.values():
+            d0 = designs[ks[0]]
+            req = d0.requirements
+            G, nc, ns = len(ks), len(d0.load_cases), len(d0.supports)
+            Fr = np.stack([analyses[k].Fr_N for k in ks])  # (G, nc, ns)
+            Ka = np.stack([analyses[k].Fa_ext_N for k in ks])
+            try:
+                split = resolve_axial(d0, Fr.reshape(G * nc, ns), Ka.reshape(-1), induced_ratios=np.zeros(ns))
+            except DesignError:
+                continue  # each variant goes through the full rating, which gives its own message
+            Fa = split.Fa_N.reshape(G, nc, ns)
+            n = np.array([c.speed_rpm for c in d0.load_cases], float)
+            t = np.array([c.time_fraction for c in d0.load_cases], float)
+            per_support = []
+            for i, s in enumerate(d0.supports):
+                if s.bearing_type is None:
+                    continue
+                r = self.rows[s.id]
+                sc = screen_rows(cat, np.array([r]), bearing_type=s.bearing_type, Fr_N=Fr[:, :, i],
+                                 Fa_N=Fa[:, None, :, i], speed_rpm=n, time_fraction=t,
+                                 life_h=req.life_h, a_R=self.a_R, s0_min=req.s0_min,
+                                 application_factor=float(req.application_factor), paired=False,
+                                 nu_mm2_s=self.nu, ec=self.ec)
+                per_support.append((s, r, sc))
+            parts = {f: getattr(split, f).reshape(G, nc, ns) for f in ("Fa_N", "Fx_N", "induced_N", "ratio")}
+            for g, k in enumerate(ks):
+                bearings = []
+                for s, r, sc in per_support:
+                    life_ok, static_ok, speed_ok = sc.life_ok[g, 0], sc.static_ok[g, 0], sc.speed_ok[g, 0]
+                    reasons = [w for w, flag in (("life", life_ok), ("static", static_ok), ("speed", speed_ok))
+                               if not flag]
+                    cand = SimpleNamespace(designation=str(cat.designation[r]), Lnm_h=float(sc.Lnm_h[g, 0]),
+                                           L10_h=float(sc.L10_h[g, 0]), s0=float(min(sc.s0[g, 0], LIFE_CAP_H)),
+                                           ok=bool(sc.ok[g, 0]), reasons=reasons)
+                    bearings.append(SimpleNamespace(id=s.id, bearing_type=s.bearing_type, candidates=[cand]))
+                out[k] = (replace(split, **{f: v[g] for f, v in parts.items()}), bearings)
+        return out
 
 
-def _mirror_result(design: Design, a: Any, held_rating: _HeldRating | None = None, catalogue: Any = None) -> Any:
+def _mirror_result(design: Design, a: Any, held: tuple[Any, list[Any]] | None = None,
+                   modes: Any = None, catalogue: Any = None) -> Any:
     """The parts of :func:`engine.solve`'s Result that the figures use, from an Analysis
-    (bearings rated, axial force and torque along x, shaft checks), as solve() makes them."""
+    (bearings rated, axial force and torque along x, shaft checks), as solve() makes them.
+
+    ``held``: (split, bearings) of the held rows (:meth:`_HeldRating.rate_many`), else the
+    full bearing rating runs; ``modes``: the variant's lateral modes when already solved."""
     from types import SimpleNamespace
 
     from engine.beam import axial_and_torque
@@ -1052,19 +1098,18 @@ def _mirror_result(design: Design, a: Any, held_rating: _HeldRating | None = Non
     from engine.checks import shaft_checks
     from engine.solve import _weight_density
 
-    fast = held_rating.rate(design, a) if held_rating is not None else None
-    if fast is None:
+    if held is None:
         outcome = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N, catalogue=catalogue)
         split, bearings, bchecks = outcome.split, outcome.bearings, list(outcome.checks)
     else:
-        (split, bearings), bchecks = fast, []
+        (split, bearings), bchecks = held, []
     Fx = split.Fx_N
     Fx_loads = np.hstack([np.array([cl.F_N[:, 0] for cl in a.loads]), Fx])
     x_loads = np.concatenate([a.loads[0].x_mm if a.loads else [], [s.x_mm for s in design.supports]])
     T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
     a.N_N, a.T_Nmm = axial_and_torque(a.mesh, x_loads, Fx_loads, T_loads,
                                       _weight_density(design, a.loads)[:, 0])
-    sc = shaft_checks(a)
+    sc = shaft_checks(a, modes=modes, min_diameter=False)  # the figures show no section sizes
     shaft = SimpleNamespace(min_safety_factor=sc.min_safety_factor, critical_speed_rpm=sc.critical_speed_rpm)
     cases = [SimpleNamespace(speed_rpm=c.speed_rpm) for c in design.load_cases]
     return SimpleNamespace(bearings=bearings, checks=bchecks + list(sc.checks), shaft=shaft, load_cases=cases)
@@ -1093,10 +1138,16 @@ def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
             loads.append([replace(cl, x_mm=xs) for cl in base_loads])
     out: list[VariantFigures | DesignError] = []
     analyses = batched_analyses(designs, loads=loads)
-    rating = _HeldRating(designs[0], held, catalogue) if fast_bearings and designs else None
-    for d, a, vals in zip(designs, analyses, study.combinations()):
+    rated: list[Any] = [None] * len(designs)
+    if fast_bearings and designs:
+        rated = _HeldRating(designs[0], held, catalogue).rate_many(designs, analyses)
+    try:
+        modes = dynamics.lateral_frequencies_many(designs)
+    except (ArithmeticError, ValueError, IndexError):  # each variant's own checks then say what is wrong
+        modes = [None] * len(designs)
+    for d, a, r, m, vals in zip(designs, analyses, rated, modes, study.combinations()):
         try:
-            out.append(figures_of(d, _mirror_result(d, a, rating, catalogue), held=held, values=vals))
+            out.append(figures_of(d, _mirror_result(d, a, r, m, catalogue), held=held, values=vals))
         except DesignError as exc:
             out.append(exc)
         except (ArithmeticError, ValueError, IndexError, np.linalg.LinAlgError) as exc:

@@ -1,7 +1,8 @@
 """Screen and rank catalogue rows for one support: every row × every load case as arrays.
 
 Units: N, mm, rpm, h. Arrays are (n_rows, n_cases) inside; results per row are (n_rows,).
-No Python loop runs over rows.
+No Python loop runs over rows. Given radial loads of many variants of a design at once
+(Fr (n_variants, n_cases)), every array gains that leading axis: (n_variants, n_rows, …).
 
 For each row of the support's type: the equivalent dynamic load P per case (ISO 281, the
 row's own factors), the revolution-weighted mean load Pm, the basic life L10_h of the duty
@@ -74,9 +75,9 @@ def screen_rows(cat: Catalogue, idx: np.ndarray, *, bearing_type: str, Fr_N, Fa_
     cat : Catalogue
     idx : ndarray of int
         Catalogue rows to screen (all of ``bearing_type``)
-    Fr_N : array_like (n_cases,)
+    Fr_N : array_like (n_cases,), or (n_variants, n_cases) for many variants at once
         Radial load per case, [N]
-    Fa_N : array_like (n_cases,) or (n_rows, n_cases)
+    Fa_N : array_like (n_cases,) or (n_rows, n_cases); with variants (n_variants, 1 or n_rows, n_cases)
         Axial load carried per case (per row where induced forces depend on the row), [N]
     speed_rpm, time_fraction : array_like (n_cases,)
         Speed [rpm] and share of time [-] of each case
@@ -96,11 +97,14 @@ def screen_rows(cat: Catalogue, idx: np.ndarray, *, bearing_type: str, Fr_N, Fa_
     Returns
     -------
     Screen
+        Per-row arrays (n_rows,) and per row and case (n_rows, n_cases); with variants a
+        leading (n_variants,) axis on each (``idx``, ``C_N``, ``C0_N``, ``limiting_speed_rpm``
+        and ``n_max_rpm`` are shared)
     """
     idx = np.asarray(idx, dtype=int)
     col = lambda a: a[idx][:, None]  # noqa: E731  (n_rows, 1)
-    Fr = application_factor * np.asarray(Fr_N, float)[None, :]
-    Fa = application_factor * np.broadcast_to(np.asarray(Fa_N, float), (idx.size, Fr.shape[1]))
+    Fr = application_factor * np.asarray(Fr_N, float)[..., None, :]
+    Fa = application_factor * np.broadcast_to(np.asarray(Fa_N, float), Fr.shape[:-2] + (idx.size, Fr.shape[-1]))
     n = np.asarray(speed_rpm, float)
     t = np.asarray(time_fraction, float)
     kc, k0 = pair_rating_factors(bearing_type) if paired else (1.0, 1.0)
@@ -118,30 +122,30 @@ def screen_rows(cat: Catalogue, idx: np.ndarray, *, bearing_type: str, Fr_N, Fa_
     with np.errstate(divide="ignore", invalid="ignore"):
         L10_case = life_hours((C / P) ** p, n)                     # (rows, cases), inf if P = 0
         w = n * t
-        Pm = (np.sum(w * P ** p, axis=1) / np.sum(w)) ** (1.0 / p)
+        Pm = (np.sum(w * P ** p, axis=-1) / np.sum(w)) ** (1.0 / p)
         L10 = miner_life_h(L10_case, time_fraction=t)
         if nu_mm2_s is not None and ec is not None:
             dm = 0.5 * (col(cat.d_mm) + col(cat.D_mm))
             kappa = nu_mm2_s / rated_viscosity(n[None, :], dm)
             aiso = a_iso(kappa=kappa, ec_Cu_P=ec * Cu / P, roller=bearing_type not in BALL_TYPES)
             Lnm = miner_life_h(a_R * aiso * L10_case, time_fraction=t)
-            kmin = kappa.min(axis=1)
+            kmin = np.broadcast_to(kappa.min(axis=-1), Lnm.shape)
         else:
             Lnm = a_R * L10
-            kmin = np.full(idx.size, np.nan)
+            kmin = np.full(Lnm.shape, np.nan)
         a_eff = np.where(np.isfinite(Lnm) & (L10 > 0), Lnm / (a_R * L10), 1.0)
-        P0max = P0.max(axis=1)
+        P0max = P0.max(axis=-1)
         s0 = np.where(P0max > 0, C0[:, 0] / P0max, np.inf)
         req_C = np.where(np.isfinite(Lnm) & (Lnm > 0), C[:, 0] * (life_h / Lnm) ** (1.0 / p), 0.0)
     nlim = cat.limiting_speed_rpm[idx]
     n_max = float(n.max())
     life_ok = Lnm >= life_h * (1.0 - 1e-12)
     static_ok = s0 >= s0_min * (1.0 - 1e-12)
-    speed_ok = ~(n_max > nlim)  # NaN limit -> not checked -> passes
+    speed_ok = np.broadcast_to(~(n_max > nlim), life_ok.shape)  # NaN limit -> not checked -> passes
     return Screen(idx=idx, C_N=C[:, 0], C0_N=C0[:, 0], Fa_N=Fa / application_factor, P_N=P,
                   P0_N=P0, Pm_N=Pm, L10_h=np.minimum(L10, LIFE_CAP_H),
                   Lnm_h=np.minimum(Lnm, LIFE_CAP_H), a_iso_eff=a_eff, kappa_min=kmin, s0=s0,
-                  worst_static_case=P0.argmax(axis=1), n_max_rpm=n_max, limiting_speed_rpm=nlim,
+                  worst_static_case=P0.argmax(axis=-1), n_max_rpm=n_max, limiting_speed_rpm=nlim,
                   life_ok=life_ok, static_ok=static_ok, speed_ok=speed_ok,
                   ok=life_ok & static_ok & speed_ok, required_C_N=req_C)
 
