@@ -19,7 +19,7 @@ __all__ = [
     "FORMAT", "BEARING_TYPES", "ELEMENT_KINDS", "Issue", "DesignError", "EngineError",
     "Material", "Segment", "Groove", "Shaft", "Support",
     "Gear", "BevelGear", "Pulley", "Sprocket", "Coupling", "PointForce", "PointMoment",
-    "Element", "LoadCase", "Lubricant", "Requirements", "Gravity", "Analysis", "Design",
+    "Element", "BearingTable", "LoadCase", "Lubricant", "Requirements", "Gravity", "Analysis", "Design",
     "parse_design", "TORQUE_TOLERANCE", "BIG", "TINY",
     "MAX_SEGMENTS", "MAX_GROOVES", "MAX_SUPPORTS", "MAX_ELEMENTS", "MAX_LOAD_CASES",
 ]
@@ -283,6 +283,14 @@ class Analysis(_Doc):
     shear_deformation: bool = True
 
 
+class BearingTable(_Doc):
+    """The designer's own bearing table, carried in the design so that a shared link and the
+    note use the same rows: CSV text with the columns of sample_data/bearings.csv."""
+
+    name: str = Field(default="own bearing table", min_length=1, max_length=200)
+    csv: str = Field(min_length=1, max_length=400_000)
+
+
 class Design(_Doc):
     format: Literal["shaft-design/1"] = FORMAT
     name: str = Field(default="untitled shaft", max_length=200)
@@ -294,6 +302,7 @@ class Design(_Doc):
     requirements: Requirements = Requirements()
     gravity: Gravity | None = Gravity()
     analysis: Analysis = Analysis()
+    bearing_table: BearingTable | None = None
 
     def support(self, sid: str) -> Support:
         return next(s for s in self.supports if s.id == sid)

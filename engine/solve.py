@@ -11,16 +11,17 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import asdict
+from functools import lru_cache
 from typing import Any
 
 import numpy as np
 
 import engine
 from engine.checks import shaft_checks, sort_checks
-from engine.bearings import Catalogue, rate_bearings
+from engine.bearings import Catalogue, parse_catalogue, rate_bearings
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_mesh, solve_bending
 from engine.loads import CaseLoads, case_loads
-from engine.model import Design, EngineError, parse_design
+from engine.model import Design, DesignError, EngineError, Issue, parse_design
 from engine.result import (CaseResult, Diagrams, ElementForces, Result, ShaftSection,
                            ShaftSummary, SupportReaction)
 
@@ -128,6 +129,17 @@ def _check_finite(design: Design, result: Result) -> None:
     raise _overflow(design_path, where, value)
 
 
+@lru_cache(maxsize=8)
+def _own_table(csv: str, name: str) -> Catalogue:
+    """The design's own bearing table, parsed once per distinct text; its errors point at
+    ``bearing_table.csv`` and say the row and column."""
+    try:
+        return parse_catalogue(csv, name=name)
+    except DesignError as exc:
+        raise DesignError([Issue(path="bearing_table.csv", message=f"{e.path}: {e.message}" if e.path else e.message)
+                           for e in exc.errors]) from None
+
+
 def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | None = None) -> Result:
     """Solve a design document (mapping or :class:`Design`) and return the :class:`Result`.
 
@@ -139,6 +151,8 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
     infinity), each listing the key paths at fault.
     """
     design = parse_design(design_data)
+    if catalogue is None and design.bearing_table is not None:
+        catalogue = _own_table(design.bearing_table.csv, design.bearing_table.name)
     a = analyse(design)
     rated = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N, catalogue=catalogue)
     Fa, Fx = rated.split.Fa_N, rated.split.Fx_N

@@ -45,3 +45,19 @@ def test_own_bearing_table(tmp_path, capsys):
     f.write_text(rows[0] + "\nDG-02-40,deep_groove_ball\n")
     assert main(["solve", str(SAMPLES / "countershaft.json"), "--bearings", str(f)]) == 2
     assert "row 2" in capsys.readouterr().err
+
+
+def test_bearing_table_carried_in_the_design():
+    import pytest
+
+    lines = (SAMPLES / "bearings.csv").read_text(encoding="utf-8").splitlines()
+    rows = [ln for ln in lines if not ln.startswith("#")]
+    design = load_sample("countershaft.json")
+    design["bearing_table"] = {"name": "our stores list", "csv": "\n".join(
+        [rows[0]] + [r for r in rows[1:] if r.startswith(("DG-03-40,", "CR-03-40,"))])}
+    r = engine.solve(design)
+    assert [[c.designation for c in b.candidates] for b in r.bearings] == [["DG-03-40"], ["CR-03-40"]]
+    design["bearing_table"]["csv"] = rows[0] + "\nDG-03-40,deep_groove_ball\n"
+    with pytest.raises(engine.DesignError) as exc:
+        engine.solve(design)
+    assert exc.value.errors[0].path == "bearing_table.csv" and "row 2" in exc.value.errors[0].message
