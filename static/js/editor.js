@@ -105,6 +105,19 @@
     Object.keys(openIds).forEach(function (id) { var d = document.getElementById(id); if (d && !d.open) d.open = true; });
   }
 
+  // a printout of the page shows the folded checks too; the folds come back afterwards
+  var printOpened = [];
+  window.addEventListener("beforeprint", function () {
+    printOpened = [];
+    document.querySelectorAll("#results details:not([open]), #results-detail details:not([open])").forEach(function (d) {
+      d.open = true; printOpened.push(d);
+    });
+  });
+  window.addEventListener("afterprint", function () {
+    printOpened.forEach(function (d) { d.open = false; delete openIds[d.id]; });
+    printOpened = [];
+  });
+
   document.addEventListener("input", function (ev) { if (ev.target.closest && ev.target.closest("#design-form")) save(); });
   document.body.addEventListener("htmx:afterSettle", function () { reopen(); applyIssues(); syncCases(); drawPlot(); save(); });
 

@@ -323,3 +323,13 @@ def test_failing_check_goes_to_the_top_after_an_edit(page, live_server, artifact
     shown = page.locator("#fam-bearings > .tablewrap tr.st-fail")
     assert shown.count() >= 1 and shown.first.is_visible()
     page.screenshot(path=str(artifacts / "09-results-failing.png"), full_page=True)
+
+
+def test_print_opens_the_folds_and_restores_them(page, live_server):
+    _open(page, live_server)
+    n = page.locator("#results-detail details.more:not([open])").count()
+    assert n >= 1
+    page.evaluate("window.dispatchEvent(new Event('beforeprint'))")
+    assert page.locator("#results-detail details.more:not([open])").count() == 0
+    page.evaluate("window.dispatchEvent(new Event('afterprint'))")
+    assert page.locator("#results-detail details.more:not([open])").count() == n
