@@ -21,6 +21,7 @@ checks (SI-mm); the template converts for display. Pure functions of the result:
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, field
 from typing import Any, Iterable, Sequence
 
@@ -122,6 +123,9 @@ def short_where(where: str) -> str:
     return where
 
 
+_X_MM = re.compile(r"^x = (-?[0-9]+(?:\.[0-9]*)?(?:[eE][-+]?[0-9]+)?) mm\b")
+
+
 def _key_number(v: float | None) -> float | None:
     if v is None or not math.isfinite(v) or v == 0:
         return v
@@ -160,6 +164,13 @@ class CheckRow:
     @property
     def where_short(self) -> str:
         return short_where(self.check.where)
+
+    @property
+    def x_mm(self) -> float | None:
+        """Position along the shaft [mm] when the check's place is "x = … mm", else None (the
+        page shows it in the display units)."""
+        m = _X_MM.match(self.check.where)
+        return float(m.group(1)) if m else None
 
     @property
     def sort_key(self) -> tuple[int, float]:

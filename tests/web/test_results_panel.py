@@ -169,6 +169,9 @@ def test_panel_in_us_units_converts_check_values(client, monkeypatch):
     assert "0.005118 in" in body
     # 0.0007 rad is a slope: the same in both systems
     assert "0.0007 rad" in body
+    # the section's place along the shaft too: x = 30 mm is 30 / 25.4 = 1.181 in
+    fat = next(r for r in _summary_rows(body) if r["attrs"]["data-topic"] == "shaft.fatigue")
+    assert "x = 1.181 in" in fat["text"] and "x = 30 mm" not in fat["text"]
 
 
 def test_demo_design_summary_is_compact(client):
