@@ -39,7 +39,8 @@ import numpy as np
 from engine import dynamics, stiffness, strength
 from engine.result import Check
 
-__all__ = ["Section", "ShaftCheckOutcome", "shaft_checks", "sort_checks", "AT_LEAST_CODES", "CRITICAL_SPEED_SOURCE"]
+__all__ = ["Section", "ShaftCheckOutcome", "shaft_checks", "shoulder_kt", "sort_checks", "AT_LEAST_CODES",
+           "CRITICAL_SPEED_SOURCE"]
 
 CRITICAL_SPEED_SOURCE = ("common practice: run at least the margin below the first lateral "
                          "critical speed (memory: Shigley 9th ed. §7-6 asks for a generous margin)")
@@ -136,8 +137,33 @@ def _node_values(a) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     return M, np.abs(larger(np.asarray(a.T_Nmm, float))), larger(np.asarray(a.N_N, float))
 
 
-def _build_sections(a, M_node: np.ndarray):
-    """Section list: node, x, d, bore, surface, labels, primary kind; and their stress raisers."""
+def _shoulders(shaft) -> tuple[list, np.ndarray, np.ndarray, np.ndarray]:
+    """The shaft's shoulders: (segment index right of it, left segment, right segment) each,
+    and their larger and smaller diameters D, d [mm] and fillet radii r [mm] (a sharp
+    r = 0.02·d where the segment gives none, Shigley Table 7-1)."""
+    steps = [(i, s0, s1) for i, (s0, s1) in enumerate(zip(shaft.segments[:-1], shaft.segments[1:]), start=1)
+             if abs(s0.d_mm - s1.d_mm) >= _EPS]
+    D = np.array([max(s0.d_mm, s1.d_mm) for _, s0, s1 in steps])
+    d = np.array([min(s0.d_mm, s1.d_mm) for _, s0, s1 in steps])
+    r = np.array([s1.fillet_r_mm if s1.fillet_r_mm is not None else strength.SHARP_FILLET_R_OVER_D * dd
+                  for (_, _, s1), dd in zip(steps, d)])
+    return steps, D, d, r
+
+
+def shoulder_kt(shafts) -> list[np.ndarray]:
+    """Kt in bending, torsion and axial load of every shoulder of each shaft, (n_shoulders, 3)
+    per shaft, by :func:`engine.strength.kt_shoulder` evaluated once for all the shafts
+    (a study passes each variant's to :func:`shaft_checks`)."""
+    parts = [_shoulders(sh)[1:] for sh in shafts]
+    D, d, r = (np.concatenate([p[k] for p in parts]) for k in range(3))
+    kts = np.stack([strength.kt_shoulder(D_mm=D, d_mm=d, r_mm=r, load=ld) for ld in ("bending", "torsion", "axial")],
+                   axis=1)
+    return np.split(kts, np.cumsum([p[0].size for p in parts])[:-1])
+
+
+def _build_sections(a, M_node: np.ndarray, kt_shoulders: np.ndarray | None = None):
+    """Section list: node, x, d, bore, surface, labels, primary kind; and their stress raisers.
+    ``kt_shoulders``: the shoulders' Kt, (n, 3), when already known (:func:`shoulder_kt`)."""
     design, mesh = a.design, a.mesh
     shaft = design.shaft
     x = mesh.x_mm
@@ -165,15 +191,9 @@ def _build_sections(a, M_node: np.ndarray):
         secs[i]["labels"].append(label)
         secs[i]["kind"] = secs[i]["kind"] or kind
 
-    steps = [(i, s0, s1) for i, (s0, s1) in enumerate(zip(shaft.segments[:-1], shaft.segments[1:]), start=1)
-             if abs(s0.d_mm - s1.d_mm) >= _EPS]
+    steps, D, d, r = _shoulders(shaft)
     if steps:
-        D = np.array([max(s0.d_mm, s1.d_mm) for _, s0, s1 in steps])
-        d = np.array([min(s0.d_mm, s1.d_mm) for _, s0, s1 in steps])
-        r = np.array([s1.fillet_r_mm if s1.fillet_r_mm is not None else strength.SHARP_FILLET_R_OVER_D * dd
-                      for (_, _, s1), dd in zip(steps, d)])
-        kts = np.stack([strength.kt_shoulder(D_mm=D, d_mm=d, r_mm=r, load=ld)
-                        for ld in ("bending", "torsion", "axial")], axis=1)
+        kts = shoulder_kt([shaft])[0] if kt_shoulders is None else kt_shoulders
         for (i, _, s1), Di, di, ri, kt in zip(steps, D, d, r, kts):
             k = section(node_at(edges[i]))
             rz.add(k, tuple(float(v) for v in kt), float(ri))
@@ -274,8 +294,8 @@ def sort_checks(checks: list[Check]) -> list[Check]:
     return sorted(checks, key=lambda c: (rank[c.status], _margin(c)))
 
 
-def shaft_checks(a, *, modes: dynamics.LateralModes | None = None,
-                 min_diameter: bool = True) -> ShaftCheckOutcome:
+def shaft_checks(a, *, modes: dynamics.LateralModes | None = None, min_diameter: bool = True,
+                 kt_shoulders: np.ndarray | None = None) -> ShaftCheckOutcome:
     """Every shaft check of a solved design.
 
     Parameters
@@ -286,6 +306,8 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None,
         default: :func:`engine.dynamics.lateral_frequencies` here
     min_diameter : compute each section's smallest diameter (``Section.d_min_mm``, and in the
         fatigue message); False leaves it None (a study shows no sections)
+    kt_shoulders : Kt of the design's shoulders, (n_shoulders, 3), when the caller has them
+        (a study evaluates all its variants' at once, :func:`shoulder_kt`); default: here
 
     Returns
     -------
@@ -303,7 +325,7 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None,
 
     # strength ------------------------------------------------------------------------------
     M_node, T_node, N_node = _node_values(a)
-    secs, rz = _build_sections(a, M_node)
+    secs, rz = _build_sections(a, M_node, kt_shoulders)
     checks: list[Check] = []
     sections: list[Section] = []
     min_sf = None
@@ -388,7 +410,7 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None,
     try:
         modes = dynamics.lateral_frequencies(design, n_modes=3) if modes is None else modes
         freqs = [float(v) for v in modes.rpm if np.isfinite(v)]
-        rayleigh = dynamics.rayleigh_frequency(modes) if freqs else None
+        rayleigh = modes.rayleigh_rpm if freqs else None
     except np.linalg.LinAlgError:
         freqs, rayleigh = [], None
         checks.append(Check(code="shaft.critical_speed", status="warn", where="shaft",

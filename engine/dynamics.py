@@ -207,7 +207,8 @@ def subspace_iteration(K: np.ndarray, M: np.ndarray, n_modes: int, *, tol: float
 @dataclass(frozen=True)
 class LateralModes:
     """First lateral modes: ω [rad/s], n [rpm], mode shapes on the free DOFs (columns,
-    M-normalised), and the reduced matrices (for Rayleigh's cross-check)."""
+    M-normalised), the reduced matrices, and Rayleigh's cross-check of ω₁ [rpm]
+    (:func:`rayleigh_frequency`)."""
 
     omega_rad_s: np.ndarray
     rpm: np.ndarray
@@ -216,19 +217,36 @@ class LateralModes:
     M: np.ndarray
     free: np.ndarray
     mesh: Mesh
+    rayleigh_rpm: float = math.nan
+
+
+def _rayleigh_rpm(K: np.ndarray, M: np.ndarray, free: np.ndarray, mode1: np.ndarray) -> np.ndarray:
+    """Rayleigh's quotient (see :func:`rayleigh_frequency`) for a stack of reduced systems:
+    K, M (…, n, n), free (…, n) DOF numbers, mode1 (…, n) first mode shape. [rpm], (…)."""
+    trans = (free % 2) == 0
+    r = np.where(trans, np.sign(mode1), 0.0)
+    r[trans & (r == 0)] = 1.0
+    y = np.linalg.solve(K, (M @ r[..., None]))[..., 0]
+    yKy = np.sum(y * (K @ y[..., None])[..., 0], axis=-1)
+    yMy = np.sum(y * (M @ y[..., None])[..., 0], axis=-1)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return rad_s_to_rpm(np.sqrt(np.maximum(yKy, 0.0) / yMy))
 
 
 def _modes_of(designs: Sequence[Design], meshes: Sequence[Mesh], n_modes: int) -> list[LateralModes]:
     """Modes of designs whose eigenproblems have one size (one stacked problem)."""
     K, M, free = _lateral_systems(designs, stack_meshes(meshes))
-    rows = free[:, :, None]
-    b = np.arange(len(designs))[:, None, None]
-    Kf, Mf = K[b, rows, free[:, None, :]], M[b, rows, free[:, None, :]]
+    keep = np.zeros(K.shape[:2], dtype=bool)
+    np.put_along_axis(keep, free, True, axis=1)
+    both = keep[:, :, None] & keep[:, None, :]
+    shape = (len(designs), free.shape[1], free.shape[1])
+    Kf, Mf = K[both].reshape(shape), M[both].reshape(shape)  # rows and columns of the free DOFs
     lam, phi = subspace_iteration(Kf, Mf, n_modes)
     omega = np.sqrt(np.maximum(lam, 0.0))
     rpm = rad_s_to_rpm(omega)
+    ray = _rayleigh_rpm(Kf, Mf, free, phi[..., 0])
     return [LateralModes(omega_rad_s=omega[k], rpm=rpm[k], shapes=phi[k], K=Kf[k], M=Mf[k], free=free[k],
-                         mesh=meshes[k]) for k in range(len(designs))]
+                         mesh=meshes[k], rayleigh_rpm=float(ray[k])) for k in range(len(designs))]
 
 
 def lateral_frequencies(design: Design, *, n_modes: int = 3, mesh: Mesh | None = None) -> LateralModes:
@@ -296,13 +314,7 @@ def rayleigh_frequency(modes: LateralModes) -> float:
     r), each weight pushed the way the first mode moves its point, as Shigley advises for
     overhangs. For lumped masses this is √(g·Σwᵢyᵢ / Σwᵢyᵢ²). It bounds ω₁ from above.
     """
-    K, M = modes.K, modes.M
-    trans = np.asarray((modes.free % 2) == 0)
-    mode1 = modes.shapes[:, 0]
-    r = np.where(trans, np.sign(mode1), 0.0)
-    r[trans & (r == 0)] = 1.0
-    y = np.linalg.solve(K, M @ r)
-    return float(rad_s_to_rpm(math.sqrt(max(y @ K @ y, 0.0) / (y @ M @ y))))
+    return float(_rayleigh_rpm(modes.K, modes.M, modes.free, modes.shapes[:, 0]))
 
 
 def torsional_frequency(design: Design, mesh: Mesh) -> float | None:

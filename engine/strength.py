@@ -78,6 +78,9 @@ SHOULDER_FITS: dict[str, tuple[tuple[float, float, float], ...]] = {
         (2.00, 1.01470, -0.30035)),
 }
 SHARP_FILLET_R_OVER_D = 0.02  # Shigley [1] Table 7-1 "sharp" shoulder, used when no radius is given
+# the same rows as arrays: D/d grid with 1 prepended, A and b as columns (rows, 1)
+_SHOULDER_GRID = {load: (np.concatenate([[1.0], np.array(rows)[:, 0]]), np.array(rows)[:, 1:2],
+                         np.array(rows)[:, 2:3]) for load, rows in SHOULDER_FITS.items()}
 
 # Shigley [1] Table 7-1 first-iteration estimates (memory): (Kt bending, Kt torsion, Kt axial).
 # Keyseats are for standard proportions with a bottom radius r/d ≈ 0.02 (KEYWAY_R_OVER_D). The
@@ -126,13 +129,10 @@ def kt_shoulder(*, D_mm, d_mm, r_mm, load: Literal["bending", "torsion", "axial"
     """
     D, d, r = np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in (D_mm, d_mm, r_mm)))
     ratio = np.maximum(D / d, 1.0)
-    rd = np.clip(r / d, 1e-4, 0.3)
-    rows = np.array(SHOULDER_FITS[load])
-    Dd, A, b = rows[:, 0], rows[:, 1], rows[:, 2]
-    kt_rows = A[:, None] * rd.ravel()[None, :] ** b[:, None]  # (rows, n)
-    kt_rows = np.maximum.accumulate(np.maximum(kt_rows, 1.0), axis=0)
-    grid = np.concatenate([[1.0], Dd])
-    vals = np.vstack([np.ones((1, kt_rows.shape[1])), kt_rows])
+    rd = np.minimum(np.maximum(r / d, 1e-4), 0.3)
+    grid, A, b = _SHOULDER_GRID[load]
+    vals = np.ones((grid.size, rd.size))  # row 0: Kt = 1 at D/d = 1
+    vals[1:] = np.maximum.accumulate(np.maximum(A * rd.ravel()[None, :] ** b, 1.0), axis=0)
     q = ratio.ravel()
     idx = np.clip(np.searchsorted(grid, q, side="right") - 1, 0, grid.size - 2)
     t = np.clip((q - grid[idx]) / (grid[idx + 1] - grid[idx]), 0.0, 1.0)

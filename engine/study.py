@@ -47,6 +47,8 @@ import numpy as np
 from pydantic import BaseModel, ConfigDict
 
 from engine import dynamics
+from engine.beam import solve_bending_many
+from engine.checks import shoulder_kt
 from engine.model import BEARING_TYPES, Design, DesignError, Issue, parse_design
 from engine.result import Result
 
@@ -792,139 +794,9 @@ def compare_arrangements(design: Any, *, keys: Iterable[str] | None = None,
 
 
 # --- the batched structural solve -------------------------------------------------------------
-#
-# A variant differs from the next only in a few numbers, and the bending problem of each is
-# block-tridiagonal (two DOFs per node, elements joining neighbours). Solving every variant of
-# a study at once by block elimination (numpy operations over the variants and the load cases,
-# one Python step per node) costs a few milliseconds for hundreds of variants, where one dense
-# LAPACK solve per variant costs 0.5 ms on an idle core and several on a busy one. The element
-# matrices are engine.beam's own (``_element_stiffness``); the load vector, the support
-# conditions (rigid: the DOF removed, elastic: a spring on the diagonal) and the reactions
-# follow engine.beam.solve_bending step by step, so the results agree with it to rounding.
-
-def _inv2(A: np.ndarray) -> np.ndarray:
-    """Inverse of a stack of 2×2 matrices (…, 2, 2) by the adjugate."""
-    a, b, c, d = A[..., 0, 0], A[..., 0, 1], A[..., 1, 0], A[..., 1, 1]
-    det = a * d - b * c
-    out = np.empty_like(A)
-    out[..., 0, 0], out[..., 0, 1], out[..., 1, 0], out[..., 1, 1] = d, -b, -c, a
-    return out / det[..., None, None]
-
-
-def _block_tridiagonal_solve(Dg: np.ndarray, Up: np.ndarray, Lo: np.ndarray, f: np.ndarray) -> np.ndarray:
-    """Solve a batch of symmetric positive definite block-tridiagonal systems (block LU, no pivoting).
-
-    Dg (B, N, 2, 2) diagonal blocks, Up (B, N−1, 2, 2) blocks right of the diagonal (row i,
-    column i+1), Lo (B, N−1, 2, 2) blocks left of it (row i+1, column i), f (B, N, 2, R).
-    Golub & Van Loan, *Matrix Computations*, 4th ed., §4.5.1 (block tridiagonal LU).
-    """
-    B, N = Dg.shape[:2]
-    Cp = np.empty((B, N - 1, 2, 2))
-    dp = np.empty_like(f)
-    Minv = _inv2(Dg[:, 0])
-    Cp[:, 0] = Minv @ Up[:, 0]
-    dp[:, 0] = Minv @ f[:, 0]
-    for i in range(1, N):
-        Li = Lo[:, i - 1]
-        Minv = _inv2(Dg[:, i] - Li @ Cp[:, i - 1])
-        if i < N - 1:
-            Cp[:, i] = Minv @ Up[:, i]
-        dp[:, i] = Minv @ (f[:, i] - Li @ dp[:, i - 1])
-    x = np.empty_like(f)
-    x[:, N - 1] = dp[:, N - 1]
-    for i in range(N - 2, -1, -1):
-        x[:, i] = dp[:, i] - Cp[:, i] @ x[:, i + 1]
-    return x
-
-
-def batched_bending(designs: Sequence[Design], meshes: Sequence[Any], F_nodal: Sequence[np.ndarray],
-                    q_N_per_mm3: Sequence[np.ndarray]) -> list[Any]:
-    """:func:`engine.beam.solve_bending` for many designs at once; one BeamSolution each.
-
-    The designs must share their material and ``analysis`` settings; meshes with the same
-    node count are solved together. Arguments per design as for ``solve_bending``.
-    """
-    from engine.beam import BeamSolution, Mesh, _dofs, _element_stiffness
-    from engine.model import EngineError
-
-    out: list[Any] = [None] * len(designs)
-    groups: dict[tuple, list[int]] = {}
-    for k, (d, m) in enumerate(zip(designs, meshes)):
-        mat = d.shaft.material
-        groups.setdefault((m.n_nodes, mat.E_GPa, mat.G_GPa, d.analysis.shear_deformation), []).append(k)
-    for (N, E_GPa, G_GPa, shear), ks in groups.items():
-        B, n_el = len(ks), N - 1
-        E, G = E_GPa * 1e3, G_GPa * 1e3
-        cat = lambda name: np.concatenate([getattr(meshes[k], name) for k in ks])  # noqa: E731
-        big = Mesh(x_mm=np.zeros(B * n_el + 1), le_mm=cat("le_mm"), d_mm=cat("d_mm"), bore_mm=cat("bore_mm"),
-                   A_mm2=cat("A_mm2"), I_mm4=cat("I_mm4"), J_mm4=cat("J_mm4"),
-                   support_nodes=np.zeros(0, int), element_nodes=np.zeros(0, int))
-        ke = _element_stiffness(big, E, G, E / (2.0 * G) - 1.0, shear).reshape(B, n_el, 4, 4)
-        nc = F_nodal[ks[0]].shape[0]
-        L = big.le_mm.reshape(B, n_el)
-        A = big.A_mm2.reshape(B, n_el)
-        q = np.stack([q_N_per_mm3[k] for k in ks])[:, :, :, None] * A[:, None, None, :]  # (B, nc, 2, n_el)
-        Lq = L[:, None, None, :]
-        fe = np.stack([q * Lq / 2, q * Lq**2 / 12, q * Lq / 2, -q * Lq**2 / 12], axis=-1)  # (B,nc,2,n_el,4)
-        f = np.stack([F_nodal[k] for k in ks]).copy()  # (B, nc, 2, N, 2)
-        f[:, :, :, :-1, :] += fe[..., :2]
-        f[:, :, :, 1:, :] += fe[..., 2:]
-        # blocks of the assembled stiffness (the same for both planes)
-        Dg = np.zeros((B, N, 2, 2))
-        Dg[:, :-1] += ke[:, :, :2, :2]
-        Dg[:, 1:] += ke[:, :, 2:, 2:]
-        Up = ke[:, :, :2, 2:].copy()
-        Lo = ke[:, :, 2:, :2].copy()
-        D0, U0, L0 = Dg.copy(), Up.copy(), Lo.copy()
-        rhs = np.moveaxis(f, 3, 1).reshape(B, N, nc * 2, 2).transpose(0, 1, 3, 2).copy()  # (B, N, 2, R)
-        rhs_orig = rhs.copy()
-        rb, rn, eb, en, ek = [], [], [], [], []  # rigid (variant, node); elastic (variant, node, k)
-        for b, k in enumerate(ks):
-            for sup, node in zip(designs[k].supports, meshes[k].support_nodes):
-                if sup.radial_stiffness_N_per_mm is None:
-                    rb.append(b), rn.append(int(node))
-                else:
-                    eb.append(b), en.append(int(node)), ek.append(sup.radial_stiffness_N_per_mm)
-        rb, rn = np.array(rb, int), np.array(rn, int)
-        if rb.size:
-            Dg[rb, rn, 0, :] = 0.0
-            Dg[rb, rn, :, 0] = 0.0
-            Dg[rb, rn, 0, 0] = 1.0
-            m = rn < N - 1
-            Up[rb[m], rn[m], 0, :] = 0.0
-            Lo[rb[m], rn[m], :, 0] = 0.0
-            m = rn > 0
-            Up[rb[m], rn[m] - 1, :, 0] = 0.0
-            Lo[rb[m], rn[m] - 1, 0, :] = 0.0
-            rhs[rb, rn, 0, :] = 0.0
-        if eb:
-            np.add.at(Dg, (np.array(eb), np.array(en), 0, 0), np.array(ek))
-        with np.errstate(divide="ignore", invalid="ignore"):
-            u = _block_tridiagonal_solve(Dg, Up, Lo, rhs)  # (B, N, 2, R)
-        # reactions with the unmodified stiffness: (K u − f) at each support's deflection DOF
-        Ku = D0 @ u
-        Ku[:, :-1] += U0 @ u[:, 1:]
-        Ku[:, 1:] += L0 @ u[:, :-1]
-        reac = Ku - rhs_orig
-        u_c = u.transpose(0, 3, 1, 2).reshape(B, nc, 2, N, 2)  # (B, nc, plane, node, dof)
-        r_c = reac.transpose(0, 3, 1, 2).reshape(B, nc, 2, N, 2)
-        flat = u_c.reshape(B, nc, 2, 2 * N)
-        ue = flat[:, :, :, _dofs(n_el)]  # (B, nc, 2, n_el, 4)
-        end = np.einsum("beij,bcpej->bcpei", ke, ue) - fe
-        V = np.stack([end[..., 0], -end[..., 2]], axis=-1)
-        M = np.stack([-end[..., 1], end[..., 3]], axis=-1)
-        finite = np.isfinite(flat).all(axis=(1, 2, 3))
-        for b, k in enumerate(ks):
-            if not finite[b]:
-                raise EngineError.at("supports", "the supports do not hold the shaft: it can move as a rigid body")
-            d, m = designs[k], meshes[k]
-            nodes = np.asarray(m.support_nodes, int)
-            R = r_c[b][:, :, nodes, 0].copy()  # (nc, 2, n_supports)
-            for j, sup in enumerate(d.supports):
-                if sup.radial_stiffness_N_per_mm is not None:
-                    R[:, :, j] = -sup.radial_stiffness_N_per_mm * u_c[b][:, :, nodes[j], 0]
-            out[k] = BeamSolution(u_mm=flat[b][:, :, 0::2], slope_rad=flat[b][:, :, 1::2], V_N=V[b], M_Nmm=M[b], R_N=R)
-    return out
+# engine.beam.solve_bending_many: the bending of every variant at once (block-tridiagonal
+# elimination over the variants); kept here under its first name.
+batched_bending = solve_bending_many
 
 
 def batched_analyses(designs: Sequence[Design], *, loads: Sequence[Any] | None = None) -> list[Any]:
@@ -1085,12 +957,13 @@ class _HeldRating:
 
 
 def _mirror_result(design: Design, a: Any, held: tuple[Any, list[Any]] | None = None,
-                   modes: Any = None, catalogue: Any = None) -> Any:
+                   modes: Any = None, kt_shoulders: Any = None, catalogue: Any = None) -> Any:
     """The parts of :func:`engine.solve`'s Result that the figures use, from an Analysis
     (bearings rated, axial force and torque along x, shaft checks), as solve() makes them.
 
     ``held``: (split, bearings) of the held rows (:meth:`_HeldRating.rate_many`), else the
-    full bearing rating runs; ``modes``: the variant's lateral modes when already solved."""
+    full bearing rating runs; ``modes``, ``kt_shoulders``: the variant's lateral modes and
+    shoulder factors when already computed (for all variants at once)."""
     from types import SimpleNamespace
 
     from engine.beam import axial_and_torque
@@ -1109,7 +982,7 @@ def _mirror_result(design: Design, a: Any, held: tuple[Any, list[Any]] | None = 
     T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
     a.N_N, a.T_Nmm = axial_and_torque(a.mesh, x_loads, Fx_loads, T_loads,
                                       _weight_density(design, a.loads)[:, 0])
-    sc = shaft_checks(a, modes=modes, min_diameter=False)  # the figures show no section sizes
+    sc = shaft_checks(a, modes=modes, min_diameter=False, kt_shoulders=kt_shoulders)  # no section sizes shown
     shaft = SimpleNamespace(min_safety_factor=sc.min_safety_factor, critical_speed_rpm=sc.critical_speed_rpm)
     cases = [SimpleNamespace(speed_rpm=c.speed_rpm) for c in design.load_cases]
     return SimpleNamespace(bearings=bearings, checks=bchecks + list(sc.checks), shaft=shaft, load_cases=cases)
@@ -1141,13 +1014,14 @@ def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
     rated: list[Any] = [None] * len(designs)
     if fast_bearings and designs:
         rated = _HeldRating(designs[0], held, catalogue).rate_many(designs, analyses)
-    try:
-        modes = dynamics.lateral_frequencies_many(designs)
+    try:  # the figures show the first critical speed only: one mode (5 trial vectors) converges fastest
+        modes = dynamics.lateral_frequencies_many(designs, n_modes=1)
     except (ArithmeticError, ValueError, IndexError):  # each variant's own checks then say what is wrong
         modes = [None] * len(designs)
-    for d, a, r, m, vals in zip(designs, analyses, rated, modes, study.combinations()):
+    kts = shoulder_kt([d.shaft for d in designs])
+    for d, a, r, m, kt, vals in zip(designs, analyses, rated, modes, kts, study.combinations()):
         try:
-            out.append(figures_of(d, _mirror_result(d, a, r, m, catalogue), held=held, values=vals))
+            out.append(figures_of(d, _mirror_result(d, a, r, m, kt, catalogue), held=held, values=vals))
         except DesignError as exc:
             out.append(exc)
         except (ArithmeticError, ValueError, IndexError, np.linalg.LinAlgError) as exc:

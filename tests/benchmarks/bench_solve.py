@@ -1,6 +1,8 @@
 """Benchmark: the demo solve with every shaft check on.
 
-Run: ``python tests/benchmarks/bench_solve.py [--runs N] [--strict] [design.json]``.
+Run: ``python tests/benchmarks/bench_solve.py [--runs N] [--threads N] [--strict] [design.json]``
+(``--threads`` leaves numpy's BLAS at N threads; by default 1, as the app and the tests run it:
+on two shared cores a threaded BLAS makes these small solves several times slower).
 Prints the median and 95th percentile of the whole solve with every shaft check on, and of the
 shaft checks alone. While ``engine.solve`` does not yet call ``engine.checks.shaft_checks``
 itself, the whole solve is timed as ``solve()`` plus ``shaft_checks()`` on the analysis that
@@ -11,10 +13,15 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import statistics
 import sys
 import time
 from pathlib import Path
+
+_n = sys.argv[sys.argv.index("--threads") + 1] if "--threads" in sys.argv else "1"
+for _k in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
+    os.environ.setdefault(_k, _n)  # before numpy is imported
 
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
@@ -36,6 +43,7 @@ def main(argv: list[str] | None = None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("design", nargs="?", default=str(ROOT / "sample_data" / "countershaft.json"))
     ap.add_argument("--runs", type=int, default=200)
+    ap.add_argument("--threads", default="1", help="BLAS threads (read before numpy is imported)")
     ap.add_argument("--strict", action="store_true")
     args = ap.parse_args(argv)
     data = json.loads(Path(args.design).read_text(encoding="utf-8"))
@@ -65,6 +73,7 @@ def main(argv: list[str] | None = None) -> int:
           f"{args.runs} runs")
     print(f"whole solve ({how}): median {med:.2f} ms, p95 {p95:.2f} ms (budget {BUDGET_MS:g} ms median)")
     print(f"shaft_checks alone: median {cmed:.2f} ms, p95 {cp95:.2f} ms")
+    print(f"BLAS threads: {os.environ.get('OPENBLAS_NUM_THREADS')}; load average {os.getloadavg()[0]:.2f}")
     over = med > BUDGET_MS
     if over:
         print("OVER BUDGET")
