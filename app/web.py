@@ -9,13 +9,19 @@ the chosen unit system; the design document is SI-mm. This module:
   every problem with its key path and keeping the user's text untouched;
 - :func:`apply_op` does the structural edits (add, remove, move a row; switch units);
 - :func:`editor_sections` describes the rows and fields that the template draws;
-- :func:`place_issues` finds, for each problem, the slot on the page where its message goes.
+- :func:`place_issues` finds, for each problem, the slot on the page where its message goes;
+- :func:`bearing_table_view` says which bearing table the design rates against (the bundled
+  illustrative one, or the designer's own, carried in the design as ``bearing_table``).
 
 Keys the form does not show (grooves, per-case torques, solver settings, …) travel in hidden
 ``<path>._extra`` fields as JSON, so an edit in the browser never drops part of a saved design.
+The designer's own bearing table travels in two hidden fields, ``bearing_table.name`` and
+``bearing_table.csv`` (the CSV text as loaded); an empty ``bearing_table.csv`` means the
+bundled table.
 """
 from __future__ import annotations
 
+import functools
 import json
 import math
 import re
@@ -30,10 +36,12 @@ from engine.model import (BEARING_TYPES, ELEMENT_KINDS, BevelGear, Coupling, Gea
 __all__ = [
     "Field", "Row", "Section", "FormState", "LISTS", "ELEMENT_FIELDS", "design_to_form",
     "form_to_design", "apply_op", "editor_sections", "place_issues", "slug", "parse_number",
-    "BEARING_LABELS", "KIND_LABELS", "read_form",
+    "BEARING_LABELS", "KIND_LABELS", "read_form", "BT_NAME", "BT_CSV", "BearingTableView",
+    "bearing_table_view", "bearing_table_issues", "BUNDLED_TABLE_NAME",
 ]
 
 FormState = dict[str, str]
+BT_NAME, BT_CSV = "bearing_table.name", "bearing_table.csv"  # form keys of the own table
 
 BEARING_LABELS = {
     "deep_groove_ball": "deep groove ball", "angular_contact_ball": "angular contact ball",
@@ -241,6 +249,17 @@ def design_to_form(design: Mapping[str, Any], system: str = "si") -> FormState:
     extra.pop("notes", None)
     if "gravity" in d and d["gravity"] is not None:
         extra["gravity"] = d["gravity"]
+    out[BT_NAME], out[BT_CSV] = "", ""
+    bt = extra.get("bearing_table")
+    if bt is None:
+        extra.pop("bearing_table", None)
+    elif isinstance(bt, dict) and isinstance(bt.get("csv"), str) and isinstance(bt.get("name", ""), str):
+        extra.pop("bearing_table")
+        out[BT_NAME], out[BT_CSV] = str(bt.get("name", "")), bt["csv"]
+        rest = {k: v for k, v in bt.items() if k not in ("name", "csv")}
+        if rest:
+            out["bearing_table._extra"] = json.dumps(rest, separators=(",", ":"))
+    # anything else under bearing_table stays in _extra, for the engine to report
     if extra:
         out["_extra"] = json.dumps(extra, separators=(",", ":"))
     out["gravity.on"] = "" if ("gravity" in d and d["gravity"] is None) else "1"
@@ -324,6 +343,7 @@ def form_to_design(form: Mapping[str, str]) -> tuple[dict[str, Any], list[Issue]
     d["notes"] = form.get("notes", "")
     if not form.get("gravity.on"):
         d["gravity"] = None
+    _read_bearing_table(form, d, issues)
     shaft = _read_obj(form, "shaft.", (), system, issues)
     shaft["material"] = _read_obj(form, "shaft.material.", MATERIAL_FIELDS, system, issues)
     shaft["segments"] = [_read_obj(form, f"shaft.segments[{i}].", SEGMENT_FIELDS, system, issues)
@@ -346,6 +366,33 @@ def form_to_design(form: Mapping[str, str]) -> tuple[dict[str, Any], list[Issue]
     d["requirements"] = _read_obj(form, "requirements.", REQUIREMENT_FIELDS, system, issues)
     # ids must stay at original indices for the paths to match: renumber nothing here.
     return d, issues
+
+
+def _read_bearing_table(form: Mapping[str, str], d: dict[str, Any], issues: list[Issue]) -> None:
+    """The own bearing table from its two hidden fields into ``d["bearing_table"]``.
+
+    A CSV in the fields decides; with none, ``_extra`` may still carry a ``bearing_table``
+    that is not a table (a hand-edited file): it stays, for the engine to report. Line ends become ``\\n``: a browser
+    posts CRLF, and the saved design should not depend on the browser.
+    """
+    text = form.get(BT_CSV, "").replace("\r\n", "\n")
+    name = form.get(BT_NAME, "").strip()
+    if not text:
+        if name:
+            d.pop("bearing_table", None)
+            issues.append(Issue(path=BT_CSV, message=f"{name} is empty: it has no header line and no rows"))
+        return  # the bundled table, or what _extra carried (for the engine to report)
+    bt: dict[str, Any] = {}
+    raw = form.get("bearing_table._extra", "")
+    if raw:
+        try:
+            rest = json.loads(raw)
+            if isinstance(rest, dict):
+                bt.update(rest)
+        except (ValueError, RecursionError):
+            pass
+    bt.update(name=name or "own bearing table", csv=text)
+    d["bearing_table"] = bt
 
 
 # --- structural edits ---------------------------------------------------------------------
@@ -633,12 +680,83 @@ def place_issues(issues: Iterable[Issue], form: Mapping[str, str]) -> dict[str, 
             m = re.match(r"^(shaft\.segments|supports|elements|load_cases)\[(\d+)\]", p)
             if m:
                 slot = "m-" + slug(m.group(0))
+            elif p == "bearing_table" or p.startswith("bearing_table."):
+                slot = "m-" + slug(BT_CSV)
             else:
                 head = next((k for k in sorted(lists, key=len, reverse=True)
                              if p == k or p.startswith(k + ".") or p.startswith(k + "[")), None)
                 slot = "m-sec-" + lists[head] if head else "m-sec-design"
         out.setdefault(slot, []).append(iss.message)
     return out
+
+
+# --- the bearing table in use ---------------------------------------------------------------
+
+BUNDLED_TABLE_NAME = "bundled illustrative table"
+
+
+@dataclass(frozen=True)
+class BearingTableView:
+    """Which bearing table a design rates against, as the editor and the results show it.
+
+    ``own``: the designer's table is in the design; ``rows``: rows read (None when it cannot
+    be read); ``problems``: what is wrong with it, each at ``bearing_table.csv`` with row and
+    column; ``warnings``: what was read but ignored or estimated; ``stray``: the design holds
+    a ``bearing_table`` that is not a table (the engine says why).
+    """
+
+    own: bool
+    name: str
+    rows: int | None
+    problems: tuple[Issue, ...] = ()
+    warnings: tuple[str, ...] = ()
+    stray: bool = False
+
+
+@functools.lru_cache(maxsize=8)
+def _read_table(text: str, name: str) -> tuple[int | None, tuple[Issue, ...], tuple[str, ...]]:
+    """Rows, problems and warnings of a CSV table, read once per distinct text."""
+    from engine.bearings import parse_catalogue
+    from engine.model import DesignError
+
+    try:
+        cat = parse_catalogue(text, name=name)
+    except DesignError as exc:  # the engine's own wording (engine.solve puts it at bearing_table.csv)
+        return None, tuple(Issue(path=BT_CSV, message=f"{e.path}: {e.message}" if e.path else e.message)
+                           for e in exc.errors), ()
+    return len(cat), (), tuple(cat.warnings)
+
+
+@functools.lru_cache(maxsize=1)
+def _bundled_rows() -> int:
+    from engine.bearings import bundled_catalogue
+
+    return len(bundled_catalogue())
+
+
+def bearing_table_view(form: Mapping[str, str]) -> BearingTableView:
+    """The bearing table that the posted form state rates against."""
+    text = form.get(BT_CSV, "").replace("\r\n", "\n")
+    if not text:
+        try:
+            stray = "bearing_table" in json.loads(form.get("_extra") or "{}")
+        except (ValueError, TypeError, RecursionError):
+            stray = False
+        return BearingTableView(own=stray, name=BUNDLED_TABLE_NAME if not stray else "bearing_table",
+                                rows=None if stray else _bundled_rows(), stray=stray)
+    name = form.get(BT_NAME, "").strip() or "own bearing table"
+    if len(text) > 400_000:  # the design's limit; the model's message says so
+        return BearingTableView(own=True, name=name, rows=None)
+    rows, problems, warnings = _read_table(text, name)
+    return BearingTableView(own=True, name=name, rows=rows, problems=problems, warnings=warnings)
+
+
+def bearing_table_issues(view: BearingTableView, issues: list[Issue]) -> list[Issue]:
+    """``issues`` and the table's own problems, unless they are there already (the engine
+    reports them only for a design that is otherwise valid)."""
+    if not view.problems or any(i.path == BT_CSV for i in issues):
+        return issues
+    return list(issues) + list(view.problems)
 
 
 def read_form(form: Mapping[str, str]):

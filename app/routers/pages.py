@@ -8,6 +8,9 @@ post to ``POST /editor/op`` and get the editor form back as well. A design that 
 validate gives 422 with the messages placed beside their fields; the last good results stay
 on screen, marked out of date. ``GET /vendor/plotly.min.js`` serves plotly.js from the
 installed ``plotly`` package (not committed to the repository a second time).
+``GET /bearing-table.csv`` serves the bundled bearing table, as a template for the
+designer's own: the browser reads that file itself (FileReader) into the design's
+``bearing_table``, so the table travels with the design and needs no upload route.
 
 :func:`render_editor` renders the full page for any design mapping, for other routers (a
 saved design) to reuse.
@@ -28,9 +31,11 @@ from fastapi.templating import Jinja2Templates
 
 import engine
 from app import drawing, plots, results_view, units, web
+from engine.bearings.catalogue import BUNDLED_PATH
 from engine.model import Issue
 
-__all__ = ["router", "templates", "render_editor", "demo_design", "solve_form", "PLOTLY_JS"]
+__all__ = ["router", "templates", "render_editor", "demo_design", "solve_form", "PLOTLY_JS",
+           "bundled_bearing_table"]
 
 log = logging.getLogger("shaftwright.pages")
 ROOT = Path(__file__).resolve().parents[2]
@@ -116,6 +121,9 @@ def solve_form(form: Mapping[str, str]) -> dict[str, Any]:
         except Exception as exc:  # never lose the page to an engine fault
             log.exception("engine failed")
             issues = [Issue(path="", message=f"the engine could not solve this design ({type(exc).__name__}: {exc})")]
+    table = web.bearing_table_view(form)
+    if result is None:
+        issues = web.bearing_table_issues(table, issues)
     view_case = form.get("view_case", "")
     case_names = [c.name for c in result.load_cases] if result is not None else []
     if view_case not in case_names:
@@ -128,6 +136,7 @@ def solve_form(form: Mapping[str, str]) -> dict[str, Any]:
         "plot_json": plots.diagram_json(result, design, load_case=view_case, system=system) if result is not None else None,
         "view": results_view.results_view(result) if result is not None else None,
         "n_supports": len(design.supports) if design is not None else 0,
+        "bearing_table": table,
     }
     ctx["elapsed_ms"] = (time.perf_counter() - t0) * 1000
     return ctx
@@ -188,6 +197,13 @@ async def editor_op(request: Request) -> HTMLResponse:
     ctx.update(sections=web.editor_sections(form), focus=focus_id)
     return templates.TemplateResponse(request, "partials/op.html", ctx,
                                       status_code=200 if ctx["result"] is not None else 422)
+
+
+@router.get("/bearing-table.csv", include_in_schema=False)
+def bundled_bearing_table() -> Response:
+    """The bundled illustrative bearing table, as a template for the designer's own."""
+    return FileResponse(BUNDLED_PATH, media_type="text/csv; charset=utf-8",
+                        filename="shaftwright-bearing-table.csv")
 
 
 @router.get(f"/vendor/plotly-{PLOTLY_VERSION}.min.js", include_in_schema=False)

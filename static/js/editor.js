@@ -1,5 +1,5 @@
 /* Shaftwright editor: diagrams, field messages, working copy in local storage, drawing links,
-   opened result details kept open across live updates. */
+   opened result details kept open across live updates, the designer's own bearing table. */
 (function () {
   "use strict";
   var desk = document.querySelector(".desk");
@@ -21,11 +21,12 @@
   function applyIssues() {
     var el = document.getElementById("issue-data"); if (!el) return;
     var slots = {}; try { slots = JSON.parse(el.textContent) || {}; } catch (e) {}
-    document.querySelectorAll("#design-form .msg").forEach(function (m) {
+    document.querySelectorAll("#design-form .msg:not(.bt-local)").forEach(function (m) {
       var msgs = slots[m.id];
       var text = msgs ? msgs.join(" ") : "";
       if (m.textContent !== text) m.textContent = text;
       var fld = m.closest(".fld");
+      if (m.id === "m-bearing_table-csv") { var sec = m.closest(".bt"); if (sec) sec.classList.toggle("bad", !!msgs); }
       if (fld) {
         fld.classList.toggle("bad", !!msgs);
         var inp = fld.querySelector("input,select");
@@ -91,6 +92,8 @@
     var a = ev.target.closest && ev.target.closest("#status a[data-path]");
     if (!a) return;
     var el = document.getElementById("f-" + slug(a.getAttribute("data-path")));
+    if (!el && /^bearing_table(\.|$)/.test(a.getAttribute("data-path"))) el = document.getElementById("f-bearing_table-csv");
+    if (el && el.getAttribute("data-focus")) el = document.getElementById(el.getAttribute("data-focus"));
     if (el) { ev.preventDefault(); el.focus(); }
   });
 
@@ -116,6 +119,53 @@
   window.addEventListener("afterprint", function () {
     printOpened.forEach(function (d) { d.open = false; delete openIds[d.id]; });
     printOpened = [];
+  });
+
+  // the designer's own bearing table: the browser reads the .csv file into the two hidden
+  // fields, and the form's live solve carries it from there (no upload route)
+  var MAX_TABLE_CHARS = 400000;  // the design's limit on bearing_table.csv (engine/model.py)
+  function tableMsg(text) { var m = document.getElementById("bt-local-msg"); if (m) m.textContent = text || ""; }
+  function setTable(name, csv) {
+    var n = document.getElementById("f-bearing_table-name"), c = document.getElementById("f-bearing_table-csv");
+    if (!n || !c) return;
+    n.value = name; c.value = csv;
+    var b = document.getElementById("bt-bundled"); if (b) b.hidden = !csv;
+    c.dispatchEvent(new Event("input", {bubbles: true}));  // live solve and working copy
+  }
+  document.addEventListener("change", function (ev) {
+    var inp = ev.target;
+    if (!inp || inp.id !== "bt-file" || !inp.files || !inp.files[0]) return;
+    var file = inp.files[0];
+    tableMsg("");
+    if (file.size > 4 * MAX_TABLE_CHARS) {
+      tableMsg(file.name + " is " + Math.round(file.size / 1000) + " kB; a bearing table may hold at most " +
+               MAX_TABLE_CHARS.toLocaleString("en") + " characters. The table in use is unchanged.");
+      inp.value = ""; return;
+    }
+    var reader = new FileReader();
+    reader.onload = function () {
+      var text = String(reader.result || "");
+      inp.value = "";  // the same file may be loaded again after it is edited
+      if (text.length > MAX_TABLE_CHARS) {
+        tableMsg(file.name + " holds " + text.length.toLocaleString("en") + " characters; a bearing table may hold at most " +
+                 MAX_TABLE_CHARS.toLocaleString("en") + ". The table in use is unchanged.");
+        return;
+      }
+      setTable(file.name, text);
+    };
+    reader.onerror = function () { inp.value = ""; tableMsg("Could not read " + file.name + ". The table in use is unchanged."); };
+    reader.readAsText(file);
+  });
+  document.addEventListener("click", function (ev) {
+    var b = ev.target.closest && ev.target.closest("#bt-bundled");
+    if (!b) return;
+    tableMsg("");
+    var ex = document.querySelector("#design-form input[name='_extra']");
+    if (ex) {  // a stray bearing_table carried from a hand-edited file goes too
+      try { var o = JSON.parse(ex.value || "{}"); if (o && "bearing_table" in o) { delete o.bearing_table; ex.value = JSON.stringify(o); } } catch (e) {}
+    }
+    setTable("", "");
+    var f = document.getElementById("bt-file"); if (f) f.focus();
   });
 
   document.addEventListener("input", function (ev) { if (ev.target.closest && ev.target.closest("#design-form")) save(); });
