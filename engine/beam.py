@@ -19,6 +19,12 @@ loads at nodes and the consistent load of the shaft's weight the nodal results a
 Axial force and torque are statically determinate along the shaft (supports are free in
 torsion; the axial reaction comes from the bearing arrangement), so they are summed from
 the left: N(x) = −Σ_left Fx (tension positive), T(x) = Σ_left torque.
+
+Many designs at once (a study's variants): :func:`stack_meshes` stacks meshes of one size
+along a leading axis, which :func:`bending_stiffness` and :func:`assemble` carry through;
+:func:`solve_bending_many` solves the bending of all of them by block-tridiagonal elimination.
+One design stays on :func:`solve_bending` (one dense LAPACK solve: as fast as the block loop
+for a single design here, 1.7 against 1.8 ms, and the reference the batched path is tested on).
 """
 from __future__ import annotations
 

@@ -194,8 +194,9 @@ def _build_sections(a, M_node: np.ndarray, kt_shoulders: np.ndarray | None = Non
     steps, D, d, r = _shoulders(shaft)
     if steps:
         kts = shoulder_kt([shaft])[0] if kt_shoulders is None else kt_shoulders
-        for (i, _, s1), Di, di, ri, kt in zip(steps, D, d, r, kts):
-            k = section(node_at(edges[i]))
+        at = np.argmin(np.abs(x[None, :] - edges[[i for i, _, _ in steps], None]), axis=1)  # node_at, all at once
+        for (i, _, s1), Di, di, ri, kt, node in zip(steps, D, d, r, kts, at):
+            k = section(int(node))
             rz.add(k, tuple(float(v) for v in kt), float(ri))
             note = f"r {ri:g} mm" if s1.fillet_r_mm is not None else f"r {ri:.2g} mm assumed"
             tag(k, "shoulder", f"shoulder {Di:g}/{di:g} mm, {note}")
