@@ -18,12 +18,20 @@
       modeBarButtonsToRemove: ["lasso2d", "select2d"]});
   }
 
+  // a bad bearing table's messages, one per line, the first ten of them (as the template does)
+  function tableLines(msgs) {
+    var shown = msgs.slice(0, 10);
+    if (msgs.length > 10) shown.push("… and " + (msgs.length - 10) + " more: fix these first.");
+    return shown.join("\n");
+  }
+
   function applyIssues() {
     var el = document.getElementById("issue-data"); if (!el) return;
     var slots = {}; try { slots = JSON.parse(el.textContent) || {}; } catch (e) {}
     document.querySelectorAll("#design-form .msg:not(.bt-local)").forEach(function (m) {
       var msgs = slots[m.id];
       var text = msgs ? msgs.join(" ") : "";
+      if (msgs && m.id === "m-bearing_table-csv") text = tableLines(msgs);
       if (m.textContent !== text) m.textContent = text;
       var fld = m.closest(".fld");
       if (m.id === "m-bearing_table-csv") { var sec = m.closest(".bt"); if (sec) sec.classList.toggle("bad", !!msgs); }

@@ -209,3 +209,16 @@ def test_save_and_reopen_the_share_link_keeps_the_table(client):
     assert "Saved as revision 2" in r2.text
     rev2 = client.get(f"/api/designs/{design_id}/revisions/2/export")
     assert json.loads(rev2.content)["bearing_table"]["csv"] == own_csv()
+
+
+def test_many_problems_show_the_first_ten_one_per_line(client):
+    lines = own_csv().splitlines()
+    i = lines[0].split(",").index("C_N")
+    bad = [lines[0]] + [",".join(c if k != i else "?" for k, c in enumerate(ln.split(","))) for ln in lines[1:31]]
+    form = web.design_to_form(_with_table("\n".join(bad) + "\n", "thirty-bad.csv"))
+    page = client.post("/editor/op", data={**form, "op": "restore"})
+    m = re.search(r'id="m-bearing_table-csv"[^>]*>(.*?)</span>', page.text, re.S)
+    shown = html.unescape(m.group(1)).split("\n")
+    assert len(shown) == 11 and shown[0].startswith("row 2, column C_N")
+    assert shown[-1] == "… and 20 more: fix these first."
+    assert 'class="sec bt bad"' in page.text
