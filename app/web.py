@@ -372,10 +372,11 @@ def _read_bearing_table(form: Mapping[str, str], d: dict[str, Any], issues: list
     """The own bearing table from its two hidden fields into ``d["bearing_table"]``.
 
     A CSV in the fields decides; with none, ``_extra`` may still carry a ``bearing_table``
-    that is not a table (a hand-edited file): it stays, for the engine to report. Line ends become ``\\n``: a browser
-    posts CRLF, and the saved design should not depend on the browser.
+    that is not a table (a hand-edited file): it stays, for the engine to report. Line ends
+    become ``\\n`` and a leading byte-order mark goes (a browser posts CRLF, a spreadsheet
+    writes the mark): the saved design should not depend on either.
     """
-    text = form.get(BT_CSV, "").replace("\r\n", "\n")
+    text = form.get(BT_CSV, "").replace("\r\n", "\n").removeprefix("\ufeff")
     name = form.get(BT_NAME, "").strip()
     if not text:
         if name:
@@ -736,7 +737,7 @@ def _bundled_rows() -> int:
 
 def bearing_table_view(form: Mapping[str, str]) -> BearingTableView:
     """The bearing table that the posted form state rates against."""
-    text = form.get(BT_CSV, "").replace("\r\n", "\n")
+    text = form.get(BT_CSV, "").replace("\r\n", "\n").removeprefix("\ufeff")
     if not text:
         try:
             stray = "bearing_table" in json.loads(form.get("_extra") or "{}")

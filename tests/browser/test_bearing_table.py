@@ -40,7 +40,8 @@ def test_load_own_table_broken_table_and_back(page, live_server, artifacts, tmp_
 
     # keyboard: the file input is reachable and labelled
     assert page.locator("label[for='bt-file']").inner_text().startswith("load your own table")
-    page.focus("#bt-file")
+    page.focus("#op-add-supports")  # the last control of the supports section
+    page.keyboard.press("Tab")
     assert page.evaluate("document.activeElement.id") == "bt-file"
 
     # 1. load our own table: the candidates become its rows

@@ -222,3 +222,11 @@ def test_many_problems_show_the_first_ten_one_per_line(client):
     assert len(shown) == 11 and shown[0].startswith("row 2, column C_N")
     assert shown[-1] == "… and 20 more: fix these first."
     assert 'class="sec bt bad"' in page.text
+
+
+def test_a_byte_order_mark_from_a_spreadsheet_is_dropped(client):
+    form = web.design_to_form(_with_table(own_csv()))
+    form["bearing_table.csv"] = "\ufeff" + form["bearing_table.csv"]
+    back, _ = web.form_to_design(form)
+    assert back["bearing_table"]["csv"] == own_csv()
+    assert client.post("/editor/solve", data=form).status_code == 200
