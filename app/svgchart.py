@@ -88,7 +88,7 @@ def line_chart(x: Sequence[float], series: Sequence[tuple[str, Sequence[float]]]
     def py(v: float) -> float:
         return mt + lh - (v - y0) / (y1 - y0) * lh
 
-    parts.append(f'<g font-size="10" fill="#333" stroke="none">')
+    parts.append('<g font-size="10" fill="#333" stroke="none">')
     for t in xt:
         parts.append(f'<line x1="{px(t):.1f}" y1="{mt}" x2="{px(t):.1f}" y2="{mt + lh}" stroke="#ddd" stroke-width="0.6"/>'
                      f'<text x="{px(t):.1f}" y="{mt + lh + 13}" text-anchor="middle">{_label(t)}</text>')

@@ -37,7 +37,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from engine import dynamics, stiffness, strength
-from engine.result import Check
+from engine.result import Check, ShaftSection
 
 __all__ = ["Section", "ShaftCheckOutcome", "shaft_checks", "shoulder_kt", "sort_checks", "AT_LEAST_CODES",
            "CRITICAL_SPEED_SOURCE"]
@@ -54,35 +54,9 @@ _YIELD_SRC = "Shigley 9th ed. Eq. 7-15 (von Mises, first-cycle peak stresses)"
 _EPS = 1e-6
 
 
-@dataclass(frozen=True)
-class Section:
-    """One checked section and its governing load case (plain data).
-
-    d_mm is the stressed diameter (at a groove, its root); Kt/Kts the largest theoretical
-    factors at the section, Kf/Kfs the fatigue factors used; sigma_a_MPa the von Mises
-    alternating stress (Kf applied) and tau_m_MPa the mean torsional stress (Kfs applied) in
-    the governing case; n_fatigue, n_yield the section's safety factors (n_fatigue over the
-    duty cycle when Miner's rule applies); d_min_mm the smallest diameter that meets both
-    targets in every case (None when not computed, ``shaft_checks(min_diameter=False)``).
-    """
-
-    x_mm: float
-    kind: str
-    where: str
-    d_mm: float
-    bore_mm: float
-    Kt: float
-    Kts: float
-    Kf: float
-    Kfs: float
-    Se_MPa: float
-    sigma_a_MPa: float
-    tau_m_MPa: float
-    n_fatigue: float
-    n_yield: float
-    d_min_mm: float | None
-    load_case: str
-    miner: bool = False
+# One checked section and its governing load case: the result's own model, so that the
+# shaft checks and the result document share one definition (fields in engine.result).
+Section = ShaftSection
 
 
 @dataclass(frozen=True)

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from typing import Annotated, Any, Literal, Union
 
-from pydantic import AfterValidator, BaseModel, ConfigDict, Field, ValidationError, field_validator
+from pydantic import AfterValidator, BaseModel, ConfigDict, Field, ValidationError
 
 __all__ = [
     "FORMAT", "BEARING_TYPES", "ELEMENT_KINDS", "Issue", "DesignError", "EngineError",

@@ -98,7 +98,15 @@ class BearingResult(_Out):
 
 
 class ShaftSection(_Out):
-    """One checked section of the shaft and its governing load case (see engine.checks.Section)."""
+    """One checked section of the shaft and its governing load case.
+
+    d_mm is the stressed diameter (at a groove, its root); Kt/Kts the largest theoretical
+    factors at the section, Kf/Kfs the fatigue factors used; sigma_a_MPa the von Mises
+    alternating stress (Kf applied) and tau_m_MPa the mean torsional stress (Kfs applied) in
+    the governing case; n_fatigue, n_yield the section's safety factors (n_fatigue over the
+    duty cycle when Miner's rule applies); d_min_mm the smallest diameter that meets both
+    targets in every case (None when not computed, ``shaft_checks(min_diameter=False)``).
+    """
 
     x_mm: float
     kind: str
@@ -114,7 +122,7 @@ class ShaftSection(_Out):
     tau_m_MPa: float
     n_fatigue: float
     n_yield: float
-    d_min_mm: float
+    d_min_mm: float | None
     load_case: str
     miner: bool = False
 

@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import asdict
 from functools import lru_cache
 from typing import Any
 
@@ -22,7 +21,7 @@ from engine.bearings import Catalogue, parse_catalogue, rate_bearings
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_mesh, solve_bending
 from engine.loads import CaseLoads, case_loads
 from engine.model import Design, DesignError, EngineError, Issue, parse_design
-from engine.result import (CaseResult, Diagrams, ElementForces, Result, ShaftSection,
+from engine.result import (CaseResult, Diagrams, ElementForces, Result,
                            ShaftSummary, SupportReaction)
 
 __all__ = ["solve", "Analysis", "analyse"]
@@ -182,7 +181,7 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
         engine_version=engine.__version__, load_cases=cases, bearings=rated.bearings,
         checks=sort_checks(rated.checks + sc.checks), warnings=rated.warnings,
         shaft=ShaftSummary(max_deflection_mm=float(u_res.max()), mass_kg=mass, length_mm=design.shaft.length_mm,
-                           sections=[ShaftSection(**asdict(x)) for x in sc.sections], **sc.summary()),
+                           sections=sc.sections, **sc.summary()),
         diagrams=_diagrams(a) if diagrams else Diagrams(x_mm=[], load_cases={}),
     )
     _check_finite(design, result)

@@ -19,7 +19,6 @@ from __future__ import annotations
 
 import csv
 import functools
-import io
 import math
 from dataclasses import dataclass, field
 from pathlib import Path

@@ -23,7 +23,7 @@ def test_first_save_gives_a_link_then_revisions_follow(client, design):
     r = client.post("/d/save", data=_form({**design, "name": "second"}, design_id=did,
                                           base_revision=1, comment="renamed"))
     assert r.status_code == 200 and "Saved as revision 2" in r.text
-    assert f'name="share_base_revision" value="2"' in r.text
+    assert 'name="share_base_revision" value="2"' in r.text
 
 
 def test_stale_save_shows_the_changes_and_keeps_both(client, design):
