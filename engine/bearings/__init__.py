@@ -22,7 +22,6 @@ Sign and units: N, mm, rpm, h. Nothing here writes files; the bundled table is r
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from pathlib import Path
 
 import numpy as np
 
