@@ -167,6 +167,12 @@ def _assumptions(design: Design) -> list[str]:
         f"Bearing loads are multiplied by the application factor "
         f"{units.fmt(design.requirements.application_factor)}; lives are stated at "
         f"{units.fmt(design.requirements.reliability_pct, 'percent', unit=True)} reliability.",
+        (f"Bearing candidates come from the designer's own table '{design.bearing_table.name}': its "
+         "data are the designer's responsibility; verify them with the supplier."
+         if design.bearing_table is not None else
+         "Bearing candidates come from the bundled table: ISO boundary dimensions with ratings "
+         "estimated from the ISO rating formulas and assumed internal geometry (illustrative, "
+         "not any supplier's data); use your supplier's ratings for the final choice."),
     ]
     return out
 

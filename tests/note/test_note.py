@@ -124,3 +124,15 @@ def test_compare_results_side_by_side(design):
     assert sections["Reactions"].changed > 0
     same = compare_results(ra, ra)
     assert all(s.changed == 0 for s in same)
+
+
+def test_note_names_the_bearing_table_in_use():
+    from app.note import render_note_html
+    from tests.conftest import SAMPLES, load_sample
+
+    design = load_sample("countershaft.json")
+    assert "bundled table" in render_note_html(design)
+    rows = [ln for ln in (SAMPLES / "bearings.csv").read_text(encoding="utf-8").splitlines() if not ln.startswith("#")]
+    design["bearing_table"] = {"name": "stores &lt;list&gt;", "csv": "\n".join(rows)}
+    html = render_note_html(design)
+    assert "own table &#39;stores &amp;lt;list&amp;gt;&#39;" in html and "verify them with the supplier" in html
