@@ -434,8 +434,10 @@ def _semantic(d: Design) -> list[Issue]:
         from engine.loads import torque_imbalance  # local: loads imports this module
 
         checks = [("elements", "the design", LoadCase(name="given", speed_rpm=1.0))]
-        checks += [(f"load_cases[{j}].torques_Nm", f"load case '{c.name}'", c)
-                   for j, c in enumerate(d.load_cases) if c.torques_Nm]
+        # a case that sets torques, or scales element torques and force-arm torques by
+        # different factors, can be out of balance even when the design is not
+        checks += [(f"load_cases[{j}].{'torques_Nm' if c.torques_Nm else 'torque_factor'}", f"load case '{c.name}'", c)
+                   for j, c in enumerate(d.load_cases) if c.torques_Nm or c.torque_factor != c.force_factor]
         for where, what, case in checks:
             imb, largest = torque_imbalance(d, case)
             if imb is not None and largest > 0 and abs(imb) > TORQUE_TOLERANCE * largest:

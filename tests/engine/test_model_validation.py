@@ -92,3 +92,19 @@ def test_pulley_needs_exactly_one_of_ratio_or_pull_factor(countershaft):
 def test_infinite_number_is_refused(countershaft):
     countershaft["load_cases"][0]["speed_rpm"] = math.inf
     assert "finite" in problems(countershaft)["load_cases[0].speed_rpm"]
+
+
+def test_torque_balance_is_checked_in_a_case_whose_factors_differ():
+    """design-format.md, 'torque_Nm': the element torques must sum to zero (within 0.5 %) in
+    every load case. An off-axis force's torque scales with force_factor while the gear's
+    scales with torque_factor, so a case with torque_factor 2 and force_factor 1 leaves
+    −2·100 + 100 = −100 N·m unbalanced (derived): that case must be refused, by its path."""
+    d = {"shaft": {"segments": [{"length_mm": 300, "d_mm": 40}]},
+         "supports": [{"id": "A", "x_mm": 10, "axial": "both"}, {"id": "B", "x_mm": 290}],
+         "elements": [{"id": "G", "kind": "gear", "x_mm": 100, "pitch_d_mm": 100, "torque_Nm": -100},
+                      {"id": "F", "kind": "force", "x_mm": 200, "Fz_N": 1000, "arm_y_mm": 100}],
+         "load_cases": [{"name": "rated", "time_fraction": 0.5, "speed_rpm": 1000},
+                        {"name": "peak", "time_fraction": 0.5, "speed_rpm": 1000, "torque_factor": 2.0}]}
+    got = problems(d)
+    assert list(got) == ["load_cases[1].torque_factor"]
+    assert "'peak'" in got["load_cases[1].torque_factor"] and "-100 N·m" in got["load_cases[1].torque_factor"]
