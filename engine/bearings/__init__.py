@@ -65,6 +65,14 @@ def _fmt(v: float) -> str:
     return f"{v:,.0f}".replace(",", " ") if abs(v) >= 100 else f"{v:.3g}"
 
 
+def _life_txt(c: Candidate, method: str) -> str:
+    """The life part of a message; a life at the cap (P practically 0) is said to be one,
+    not shown as a computed number of hours."""
+    if c.Lnm_h >= LIFE_CAP_H:
+        return "modified life above 10¹² h, not limited: the bearing carries practically no load"
+    return f"modified life {_fmt(c.Lnm_h)} h (L10 {_fmt(c.L10_h)} h, {method.split(';')[0]})"
+
+
 class _Support:
     """Per-support working data for one call."""
 
@@ -284,14 +292,15 @@ def rate_bearings(design: Design, *, Fr_N: np.ndarray, Fa_ext_N: np.ndarray,
             life_status = "ok" if sc.life_ok[top] else "fail"
             checks.append(Check(code="bearing.life", status=life_status, where=where, value=c.Lnm_h,
                                 limit=req.life_h, unit="h", source=src_life,
-                                message=f"{s.id} {c.designation}: modified life {_fmt(c.Lnm_h)} h "
-                                        f"(L10 {_fmt(c.L10_h)} h, {method.split(';')[0]}) against "
+                                message=f"{s.id} {c.designation}: {_life_txt(c, method)} against "
                                         f"{_fmt(req.life_h)} h required"))
             wc = int(sc.worst_static_case[top])
             checks.append(Check(code="bearing.static", status="ok" if sc.static_ok[top] else "fail",
                                 where=where, value=c.s0, limit=req.s0_min, unit="",
                                 load_case=cases[wc].name, source=SOURCE_P0 + "; s0 = C0/P0",
-                                message=f"{s.id} {c.designation}: static safety s0 = {c.s0:.3g} "
+                                message=f"{s.id} {c.designation}: static safety "
+                                        + ("not limited (the bearing carries no load) " if c.s0 >= LIFE_CAP_H
+                                           else f"s0 = {c.s0:.3g} ") +
                                         f"(P0 = {_fmt(sc.P0_N[top, wc])} N in '{cases[wc].name}')"))
             nl = sc.limiting_speed_rpm[top]
             if np.isnan(nl):

@@ -279,3 +279,21 @@ def test_unloaded_bearing_gives_finite_json():
     for c in out.checks:
         assert "Infinity" not in c.model_dump_json()
     json.loads(out.bearings[0].model_dump_json())
+
+
+def test_capped_life_and_static_safety_are_said_to_be_capped():
+    """An unloaded bearing has L10 = (C/P)^p = ∞ (ISO 281 cl. 7.1 with P = 0) and s0 = C0/P0 = ∞
+    (ISO 76): the result carries the cap LIFE_CAP_H as a finite number for JSON, but the
+    messages must not present it as a computed life or safety (a 13-digit number of hours);
+    they say the figure is a cap because the bearing carries no load (common practice)."""
+    from engine.bearings.candidates import LIFE_CAP_H
+    d = make_design([{"id": "A", "x_mm": 20, "bearing_type": "deep_groove_ball", "axial": "both"},
+                     {"id": "B", "x_mm": 280, "bearing_type": "deep_groove_ball", "axial": "none"}])
+    out = rate_bearings(d, Fr_N=np.array([[0.0, 2000.0]]), Fa_ext_N=np.zeros(1))
+    life = {c.where: c for c in out.checks if c.code == "bearing.life"}
+    static = {c.where: c for c in out.checks if c.code == "bearing.static"}
+    assert life["A"].value == LIFE_CAP_H
+    assert "1 000 000 000 000" not in life["A"].message and "no load" in life["A"].message
+    assert "1e+12" not in static["A"].message and "no load" in static["A"].message
+    # a loaded bearing keeps its computed figures
+    assert "no load" not in life["B"].message and "no load" not in static["B"].message
