@@ -408,8 +408,8 @@ def yield_safety(*, Kf, Kfs, Kf_ax, sigma_a, sigma_m_ax, tau_a, tau_m, Sy_MPa):
     σ'max = √((Kf|σa| + Kf,ax|σm,ax|)² + 3(Kfs(|τa| + |τm|))²),  ny = Sy/σ'max. [-], capped.
 
     >>> s = yield_safety(Kf=1, Kfs=1, Kf_ax=1, sigma_a=15.2, sigma_m_ax=0, tau_a=0, tau_m=5.77, Sy_MPa=82)
-    >>> round(float(s), 2)    # Shigley Example 7-1 gives 4.48 (memory)
-    4.5
+    >>> round(float(s), 2)    # 82/√(15.2² + 3·5.77²) (derived); Shigley Example 7-1 gives 4.48 from unrounded stresses (memory)
+    4.51
     """
     peak = np.hypot(Kf * np.abs(sigma_a) + Kf_ax * np.abs(sigma_m_ax),
                     math.sqrt(3.0) * Kfs * (np.abs(tau_a) + np.abs(tau_m)))
