@@ -386,20 +386,30 @@ def fatigue_safety(*, sigma_a_MPa, sigma_m_MPa, Se_MPa, Su_MPa, Sy_MPa,
     ...       Sy_MPa=82, criterion=c)), 2) for c in CRITERIA]
     [1.63, 1.87, 1.88, 1.56]
     """
-    sa, sm = np.asarray(sigma_a_MPa, float), np.asarray(sigma_m_MPa, float)
-    y, x = sa / Se_MPa, sm / Su_MPa
     with np.errstate(divide="ignore", invalid="ignore"):
-        if criterion == "de_goodman":
-            n = 1.0 / (y + x)
-        elif criterion == "de_gerber":
-            n = 2.0 / (y + np.sqrt(y**2 + 4.0 * x**2))
-        elif criterion == "asme_elliptic":
-            n = 1.0 / np.hypot(y, sm / Sy_MPa)
-        elif criterion == "soderberg":
-            n = 1.0 / (y + sm / Sy_MPa)
-        else:
-            raise ValueError(f"unknown fatigue criterion {criterion!r}; use one of {CRITERIA}")
+        n = 1.0 / _inverse_fatigue_safety(np.asarray(sigma_a_MPa, float), np.asarray(sigma_m_MPa, float),
+                                          Se_MPa=Se_MPa, Su_MPa=Su_MPa, Sy_MPa=Sy_MPa, criterion=criterion)
     return np.minimum(np.nan_to_num(n, nan=SAFETY_CAP, posinf=SAFETY_CAP), SAFETY_CAP)
+
+
+def _inverse_fatigue_safety(sa, sm, *, Se_MPa, Su_MPa, Sy_MPa, criterion: str):
+    """1/n of :func:`fatigue_safety` (the one place the four criteria are written), [-]."""
+    y, x = sa / Se_MPa, sm / Su_MPa
+    if criterion == "de_goodman":
+        return y + x
+    if criterion == "de_gerber":
+        return 0.5 * (y + np.sqrt(y**2 + 4.0 * x**2))
+    if criterion == "asme_elliptic":
+        return np.hypot(y, sm / Sy_MPa)
+    if criterion == "soderberg":
+        return y + sm / Sy_MPa
+    raise ValueError(f"unknown fatigue criterion {criterion!r}; use one of {CRITERIA}")
+
+
+def _peak_von_mises(*, Kf, Kfs, Kf_ax, sigma_a, sigma_m_ax, tau_a, tau_m):
+    """σ'max of :func:`yield_safety`: √((Kf|σa| + Kf,ax|σm,ax|)² + 3(Kfs(|τa| + |τm|))²), [MPa]."""
+    return np.hypot(Kf * np.abs(sigma_a) + Kf_ax * np.abs(sigma_m_ax),
+                    math.sqrt(3.0) * Kfs * (np.abs(tau_a) + np.abs(tau_m)))
 
 
 def yield_safety(*, Kf, Kfs, Kf_ax, sigma_a, sigma_m_ax, tau_a, tau_m, Sy_MPa):
@@ -411,8 +421,8 @@ def yield_safety(*, Kf, Kfs, Kf_ax, sigma_a, sigma_m_ax, tau_a, tau_m, Sy_MPa):
     >>> round(float(s), 2)    # 82/√(15.2² + 3·5.77²) (derived); Shigley Example 7-1 gives 4.48 from unrounded stresses (memory)
     4.51
     """
-    peak = np.hypot(Kf * np.abs(sigma_a) + Kf_ax * np.abs(sigma_m_ax),
-                    math.sqrt(3.0) * Kfs * (np.abs(tau_a) + np.abs(tau_m)))
+    peak = _peak_von_mises(Kf=Kf, Kfs=Kfs, Kf_ax=Kf_ax, sigma_a=sigma_a, sigma_m_ax=sigma_m_ax,
+                           tau_a=tau_a, tau_m=tau_m)
     with np.errstate(divide="ignore"):
         n = Sy_MPa / peak
     return np.minimum(n, SAFETY_CAP)
@@ -530,17 +540,8 @@ def min_diameter(*, d_mm, bore_ratio, Kf, Kfs, Kf_ax, M_Nmm, T_Nmm, Ta_Nmm, N_N,
                                       tau_a=ta, tau_m=tm)
         Se = Se_d_MPa * marin_size(d) / kb0
         with np.errstate(divide="ignore", invalid="ignore"):
-            y, x = sa / Se, sm / Su_MPa
-            if criterion == "de_goodman":
-                inv_nf = y + x
-            elif criterion == "de_gerber":
-                inv_nf = 0.5 * (y + np.sqrt(y**2 + 4.0 * x**2))
-            elif criterion == "asme_elliptic":
-                inv_nf = np.hypot(y, sm / Sy_MPa)
-            else:
-                inv_nf = y + sm / Sy_MPa
-            peak = np.hypot(Kf * np.abs(sb) + Kf_ax * np.abs(sax),
-                            math.sqrt(3.0) * Kfs * (np.abs(ta) + np.abs(tm)))
+            inv_nf = _inverse_fatigue_safety(sa, sm, Se_MPa=Se, Su_MPa=Su_MPa, Sy_MPa=Sy_MPa, criterion=criterion)
+            peak = _peak_von_mises(Kf=Kf, Kfs=Kfs, Kf_ax=Kf_ax, sigma_a=sb, sigma_m_ax=sax, tau_a=ta, tau_m=tm)
             return -np.log(np.maximum(inv_nf * n_fatigue_target, peak / Sy_MPa * n_yield_target))
 
     u0 = np.log(d0)

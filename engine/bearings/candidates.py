@@ -24,7 +24,7 @@ import numpy as np
 from engine.bearings.catalogue import Catalogue
 from engine.bearings.equivalent import (dynamic_factors, equivalent_dynamic_load,
                                         equivalent_static_load, static_factors)
-from engine.bearings.life import BALL_TYPES, a_iso, life_exponent, life_hours, miner_life_h
+from engine.bearings.life import BALL_TYPES, a_iso, life_exponent, life_hours, mean_load, miner_life_h
 from engine.bearings.lubrication import rated_viscosity
 
 __all__ = ["Screen", "screen_rows", "rank", "smallest_by_series", "pair_rating_factors", "LIFE_CAP_H"]
@@ -121,8 +121,7 @@ def screen_rows(cat: Catalogue, idx: np.ndarray, *, bearing_type: str, Fr_N, Fa_
     p = life_exponent(bearing_type)
     with np.errstate(divide="ignore", invalid="ignore"):
         L10_case = life_hours((C / P) ** p, n)                     # (rows, cases), inf if P = 0
-        w = n * t
-        Pm = (np.sum(w * P ** p, axis=-1) / np.sum(w)) ** (1.0 / p)
+        Pm = mean_load(P, speed_rpm=n, time_fraction=t, p=p)
         L10 = miner_life_h(L10_case, time_fraction=t)
         if nu_mm2_s is not None and ec is not None:
             dm = 0.5 * (col(cat.d_mm) + col(cat.D_mm))
