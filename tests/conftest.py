@@ -8,6 +8,12 @@ import os
 for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
     os.environ.setdefault(_var, "1")
 
+import tempfile
+
+# No test may write the store into the working tree: unless a test sets its own, the app's
+# default database lives in a temporary folder for the whole run.
+os.environ.setdefault("SHAFTWRIGHT_DB", os.path.join(tempfile.mkdtemp(prefix="shaftwright-tests-"), "default.db"))
+
 import copy
 import json
 from pathlib import Path
