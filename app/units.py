@@ -17,7 +17,9 @@ Conversion factors are exact by definition (NIST SP 811, appendix B): 1 in = 25.
 >>> fmt(1234.5678, "force", "si")
 '1235'
 >>> fmt(0.000123456, "slope", "si")
-'0.0001235'
+'0.000123'
+>>> fmt(5.597e8, "time", unit=True)
+'559\u202f700\u202f000\u202fh'
 """
 from __future__ import annotations
 
@@ -61,7 +63,7 @@ QUANTITIES: dict[str, Quantity] = {
     "density": Quantity("kg/m³", "lb/in³", _LB_KG / (_IN_MM * 1e-3) ** 3),
     "time": Quantity("h", "h", 1.0),
     "angle": Quantity("°", "°", 1.0),
-    "slope": Quantity("rad", "rad", 1.0),
+    "slope": Quantity("rad", "rad", 1.0, 3),  # 0.000120 rad, not 0.0001204 rad
     "percent": Quantity("%", "%", 1.0),
     "stiffness": Quantity("N/mm", "lbf/in", _LBF_N / _IN_MM),
     "ratio": Quantity("", "", 1.0),
@@ -115,14 +117,18 @@ def sig(value: float, n: int = 4) -> float:
     return round(value, n - 1 - int(math.floor(math.log10(abs(value)))))
 
 
-def _text(value: float, n: int) -> str:
+_GROUP = "\u202f"  # narrow no-break space between groups of three digits (ISO 80000-1, 7.3.1)
+BIG_DISPLAY = 1e9  # shown in full digits below this; a life of 559 700 000 h reads as such
+
+
+def _text(value: float, n: int, big: float = 1e7) -> str:
     if not math.isfinite(value):
         return "—"
     v = sig(value, n)
     if v == 0:
         return "0"
     a = abs(v)
-    if a >= 1e7 or a < 1e-5:
+    if a >= big or a < 1e-5:
         mant, _, exp = f"{v:.{n - 1}e}".partition("e")
         if "." in mant:
             mant = mant.rstrip("0").rstrip(".")
@@ -134,14 +140,31 @@ def _text(value: float, n: int) -> str:
     return "-0" if s == "-0" else s
 
 
+def _grouped(s: str) -> str:
+    """``"88060"`` → ``"88 060"`` (narrow no-break spaces), for five digits and more before
+    the decimal point; four-digit numbers stay whole (``"7850"``)."""
+    sign = s[0] if s[:1] in "-+" else ""
+    body = s[len(sign):]
+    whole, dot, frac = body.partition(".")
+    if len(whole) < 5 or not whole.isdigit():
+        return s
+    head = len(whole) % 3 or 3
+    parts = [whole[:head]] + [whole[i:i + 3] for i in range(head, len(whole), 3)]
+    return sign + _GROUP.join(parts) + dot + frac
+
+
 def fmt(value_si: float | None, quantity: str = "ratio", system: str = "si", *,
         n: int | None = None, unit: bool = False) -> str:
     """Format an SI value for display: converted, to ``n`` significant figures (default per
-    quantity, usually 4), optionally followed by its unit label. ``None`` gives an en dash."""
+    quantity, usually 4), digits in groups of three from 10 000 up, a power of ten only from
+    10⁹ up or below 10⁻⁵, optionally followed by its unit label. ``None`` gives an en dash.
+    The groups are narrow no-break spaces, which :func:`app.web.parse_number` ignores."""
     if value_si is None:
         return "–"
     v = to_display(value_si, quantity, system)
-    s = _text(v, n or _q(quantity).sig)
+    s = _text(v, n or _q(quantity).sig, BIG_DISPLAY)
+    if "e" not in s:
+        s = _grouped(s)
     if "e" in s:  # 5.597e+08 -> 5.597×10⁸
         mant, _, exp = s.partition("e")
         s = mant + "×10" + str(int(exp)).translate(_SUPERSCRIPT)

@@ -30,10 +30,14 @@ def pdf_text(path: Path) -> str:
 
 
 def expected_numbers(design: dict) -> dict[str, list[str]]:
-    """Reactions and chosen-bearing lives as the note prints them (units.fmt, SI)."""
+    """Reactions and chosen-bearing lives as the note prints them (units.fmt, SI), with the
+    narrow no-break space between digit groups as pdftotext reads it back (a plain space)."""
     result = engine.solve(design)
-    reactions = [units.fmt(s.Fr_N, "force") for c in result.load_cases for s in c.supports]
-    lives = [units.fmt(b.candidates[0].L10_h, "time") for b in result.bearings if b.candidates]
+
+    def shown(v: float, q: str) -> str:
+        return units.fmt(v, q).replace("\u202f", " ")
+    reactions = [shown(s.Fr_N, "force") for c in result.load_cases for s in c.supports]
+    lives = [shown(b.candidates[0].L10_h, "time") for b in result.bearings if b.candidates]
     return {"reactions": reactions, "lives": lives, "bearings": [b.id for b in result.bearings]}
 
 

@@ -60,7 +60,7 @@ def test_summary_names_the_governing_check_of_each_topic(client, monkeypatch):
     life = by_topic["bearing.life"]
     assert len(life) == 2
     a, b = life
-    assert "T-40-A" in a["text"] and "Lnm" in a["text"] and "4100 h" in a["text"] and "30000 h" in a["text"]
+    assert "T-40-A" in a["text"] and "Lnm" in a["text"] and "4100 h" in a["text"] and "30 000 h" in a["text"]
     assert "L10 3000 h" in a["text"], "the basic life is given beside the modified one"
     assert "T-40-C" in b["text"] and "basic rating life L10" in b["text"]
     assert len(by_topic["bearing.static"]) == 1 and "T-40-A" in by_topic["bearing.static"][0]["text"]
@@ -75,7 +75,7 @@ def test_summary_names_the_governing_check_of_each_topic(client, monkeypatch):
     assert "0.12 mm" in by_topic["shaft.gear_deflection"][0]["text"]
     # dynamics: operating speed against the first critical speed, all three cases named
     crit = by_topic["shaft.critical_speed"][0]["text"]
-    assert "960 rpm" in crit and "9600 rpm" in crit and "first critical 12000 rpm" in crit
+    assert "960 rpm" in crit and "9600 rpm" in crit and "first critical 12 000 rpm" in crit
     assert "rated, light, peak" in crit
     # every governing line has its value, its limit and a one-line source
     for r in rows:
@@ -142,10 +142,10 @@ def test_identical_checks_across_cases_shown_once_with_cases(client, monkeypatch
 def test_value_limit_and_source_beside_every_check(client, monkeypatch):
     body = _post(client, monkeypatch)
     text = body.replace("\u202f", " ")
-    assert "ISO 281:2007 cl. 7.1" in text and "30000 h" in text
+    assert "ISO 281:2007 cl. 7.1" in text and "30 000 h" in text
     rows = _check_rows(body)
     life = next(r for r in rows if r["attrs"]["data-code"] == "bearing.life")
-    assert "4100 h" in life["text"] and "≥ 30000 h" in life["text"]
+    assert "4100 h" in life["text"] and "≥ 30 000 h" in life["text"]
     # the long source: one line (its first clause), the full text on expand (<details>)
     assert "source: ISO 281:2007 cl. 7.1, L10 = (C/P)^p (as recalled; verify) …" in life["text"]
     assert re.search(r'<details class="src"><summary><span class="sr">source: </span>ISO 281:2007 cl\. 7\.1, L10 = '

@@ -34,7 +34,15 @@ def test_significant_figures():
     assert units.fmt(-42.0, "moment", unit=True) == "\u221242\u202fN·m"
     assert units.fmt(None) == "–"
     assert units.fmt(2.5e-7, "slope") == "2.5×10⁻⁷"
-    assert units.fmt(5.597e8, "time") == "5.597×10⁸"
+    # lives read in full digits, grouped by three (ISO 80000-1:2009, 7.3.1), not as 5.597×10⁸
+    assert units.fmt(5.597e8, "time") == "559\u202f700\u202f000"
+    assert units.fmt(88060.0, "time", unit=True) == "88\u202f060\u202fh"
+    assert units.fmt(7850.0, "density") == "7850"  # four digits stay whole
+    assert units.fmt(-12346.0, "force") == "\u221212\u202f350"
+    assert units.fmt(1.755e7, "time") == "17\u202f550\u202f000"
+    assert units.fmt(2.4e12, "time") == "2.4×10¹²"  # beyond 10⁹ a power of ten
+    assert units.fmt(0.0001204, "slope") == "0.00012"  # three figures for slopes
+    assert units.fmt(0.00001523, "slope") == "0.0000152"
     assert units.fmt_input(2.5e-7, "slope") == "2.5e-07"  # inputs stay parseable
     assert units.fmt(25.4, "length", "us", unit=True) == "1\u202fin"
 
