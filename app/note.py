@@ -115,8 +115,46 @@ def _kv(obj: dict, fields: Iterable) -> list[tuple[str, str, str]]:
             rows.append((f.label, _value(obj[f.key], f.quantity), unit))
     for k, v in obj.items():
         if k not in shown and k not in ("kind", "id"):
-            rows.append((k, _value(v), ""))
+            rows.append(_extra_row(k, v))
     return rows
+
+
+# keys the editor does not show, printed in words with their units instead of as raw JSON
+_EXTRA_LABELS: dict[str, tuple[str, str, str]] = {
+    "contamination_ec": ("contamination factor ec", "ratio", ""),
+    "shaft_temperature_C": ("shaft temperature", "ratio", "°C"),
+    "critical_speed_margin_pct": ("margin below the first critical speed", "percent", "%"),
+    "reliability_method": ("reliability method", "", ""),
+    "fatigue_criterion": ("fatigue criterion", "", ""),
+    "notch_sensitivity": ("notch sensitivity", "", ""),
+}
+
+
+_EXTRA_VALUES = {"de_goodman": "DE–Goodman", "de_gerber": "DE–Gerber", "asme_elliptic": "ASME elliptic",
+                 "soderberg": "Soderberg", "iso281": "ISO 281 a1", "weibull": "Weibull (three-parameter)",
+                 "neuber": "Neuber", "kuhn_hardrath": "Kuhn–Hardrath"}
+
+
+def _extra_row(key: str, v: Any) -> tuple[str, str, str]:
+    """(label, value, unit) of a key the form does not list: the lubricant as "ISO VG 68 at
+    60 °C", known keys in words, anything else under its own key."""
+    if key == "lubricant" and isinstance(v, dict):
+        parts = []
+        if v.get("iso_vg") is not None:
+            parts.append(f"ISO VG {_value(v['iso_vg'])}")
+        if v.get("operating_temp_C") is not None:
+            parts.append(f"at {_value(v['operating_temp_C'])} °C")
+        if v.get("viscosity_index") is not None:
+            parts.append(f"(VI {_value(v['viscosity_index'])})")
+        rest = {k: x for k, x in v.items() if k not in ("iso_vg", "operating_temp_C", "viscosity_index")}
+        if rest:
+            parts.append(_value(rest))
+        return ("lubricant", " ".join(parts) or "–", "")
+    if key in _EXTRA_LABELS:
+        label, quantity, unit = _EXTRA_LABELS[key]
+        text = _value(v, quantity) if quantity else _EXTRA_VALUES.get(str(v), _value(v))
+        return (label, text, unit)
+    return (key, _value(v), "")
 
 
 def _inputs(design: Design, document: dict) -> dict[str, Any]:

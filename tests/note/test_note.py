@@ -140,3 +140,15 @@ def test_note_names_the_bearing_table_in_use():
     design["bearing_table"] = {"name": "stores &lt;list&gt;", "csv": "\n".join(rows)}
     html = render_note_html(design)
     assert "own table &#39;stores &amp;lt;list&amp;gt;&#39;" in html and "verify them with the supplier" in html
+
+
+def test_requirements_the_form_does_not_show_print_in_words(design):
+    # presentation only: the lubricant and the contamination factor are named, not raw JSON
+    d = copy.deepcopy(design)
+    d.setdefault("requirements", {})["lubricant"] = {"iso_vg": 68, "operating_temp_C": 60}
+    html = render_note_html(d)
+    assert "ISO VG 68 at 60 °C" in html and "iso_vg" not in html
+    from app.note import _extra_row
+    assert _extra_row("lubricant", {"iso_vg": 68, "operating_temp_C": 60}) == ("lubricant", "ISO VG 68 at 60 °C", "")
+    assert _extra_row("contamination_ec", 0.5) == ("contamination factor ec", "0.5", "")
+    assert _extra_row("fatigue_criterion", "de_goodman")[1] == "DE–Goodman"
