@@ -177,10 +177,10 @@ def variable_options(design: engine.Design) -> list[dict[str, Any]]:
         out.append({"path": f"supports.{s.id}.x_mm", "label": f"position of support {s.id} [mm]",
                     "current": s.x_mm, "range": span(s.x_mm, 0.0, L)})
     for e in design.elements:
-        out.append({"path": f"elements.{e.id}.x_mm", "label": f"position of {e.kind} {e.id} [mm]",
+        out.append({"path": f"elements.{e.id}.x_mm", "label": f"position of {e.kind.replace('_', ' ')} {e.id} [mm]",
                     "current": e.x_mm, "range": span(e.x_mm, 0.0, L)})
     for i, g in enumerate(design.shaft.segments):
-        out.append({"path": f"shaft.segments[{i}].d_mm", "label": f"diameter of segment {i} [mm]",
+        out.append({"path": f"shaft.segments[{i}].d_mm", "label": f"diameter of segment {i + 1} [mm]",
                     "current": g.d_mm, "range": f"{max(g.bore_mm + 1, 0.8 * g.d_mm):.4g}:{1.25 * g.d_mm:.4g}:21"})
     for s in design.supports:
         if s.bearing_type is not None:
