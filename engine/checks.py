@@ -50,6 +50,8 @@ _FATIGUE_SRC = {
     "asme_elliptic": "Shigley 9th ed. Eq. 7-11 (DE–ASME elliptic)",
     "soderberg": "Shigley 9th ed. Eq. 7-13 (DE–Soderberg)",
 }
+CRITERION_NAMES = {"de_goodman": "DE–Goodman", "de_gerber": "DE–Gerber",
+                   "asme_elliptic": "DE–ASME elliptic", "soderberg": "DE–Soderberg"}
 _YIELD_SRC = "Shigley 9th ed. Eq. 7-15 (von Mises, first-cycle peak stresses)"
 _EPS = 1e-6
 
@@ -359,7 +361,7 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None, min_diameter:
                 n_yield=float(n_y[i]), d_min_mm=None if dmin is None else float(dmin[i]), load_case=case_f,
                 miner=bool(miner[i])))
             ok = n_f[i] >= req.fatigue_safety_min
-            how = "over the duty cycle by Miner's rule" if miner[i] else f"for infinite life ({crit.replace('_', '–')})"
+            how = "over the duty cycle by Miner's rule" if miner[i] else f"for infinite life ({CRITERION_NAMES[crit]})"
             checks.append(Check(
                 code="shaft.fatigue", status="ok" if ok else "fail",
                 message=(f"fatigue safety {n_f[i]:.3g} {how} at {where}, "
