@@ -7,8 +7,9 @@ after changing the environment (``get_settings.cache_clear()``).
 Environment variables:
 
 - ``SHAFTWRIGHT_DB``: where designs are stored. A file path (SQLite, created on first run,
-  WAL mode) or, later, a ``postgresql://`` URL. Default: ``shaftwright.db`` in the working
-  directory.
+  WAL mode) or a ``postgresql://`` URL (PostgreSQL 14 or later, for several workers; needs
+  the ``[postgres]`` extra; the tables are created on first use). Default:
+  ``shaftwright.db`` in the working directory.
 - ``SHAFTWRIGHT_CHROMIUM``: the headless browser used to print the design note to PDF.
   Default ``/usr/bin/chromium``.
 - ``SHAFTWRIGHT_MAX_DOCUMENT_BYTES`` (default 1 000 000) and ``SHAFTWRIGHT_MAX_ITEMS``

@@ -7,15 +7,21 @@ it adds a revision. Saving on top of a revision older than the latest is refused
 :class:`StaleBase`; the refused document is kept all the same, as a *conflict* record that
 can be read back, so that nothing the user typed is lost.
 
-The interface is :class:`Store` (a protocol); :class:`SqliteStore` is the embedded default:
-one file, WAL journal, created on first run. Every write runs in one ``BEGIN IMMEDIATE``
-transaction, so concurrent writers (threads or processes) are serialised by SQLite and a
-process killed in the middle of a save leaves either the whole revision or none of it.
-Triggers refuse any UPDATE or DELETE of a revision, so revisions never change.
+The interface is :class:`Store` (a protocol). Two stores implement it on one shared body of
+logic (numbering, conflicts, checksums, the integrity check); they differ only in how they
+connect and lock:
 
-A PostgreSQL store for a team running several workers would implement the same protocol
-(``SELECT … FOR UPDATE`` on the design row in place of ``BEGIN IMMEDIATE``); it is not part
-of this module yet, and ``open_store`` says so when given a ``postgresql://`` URL.
+- :class:`SqliteStore`, the embedded default: one file, WAL journal, created on first run.
+  Every write runs in one ``BEGIN IMMEDIATE`` transaction, so concurrent writers (threads or
+  processes) are serialised by SQLite.
+- :class:`PostgresStore`, for a team running several workers against one server
+  (``postgresql://`` URL, driver ``psycopg`` 3, extra ``[postgres]``). A save locks its
+  design's row (``SELECT … FOR UPDATE``) for the length of its transaction, so the numbers of
+  concurrent saves from any number of processes follow one another without gaps.
+
+In both, a process killed in the middle of a save leaves either the whole revision or none of
+it, and triggers refuse any UPDATE or DELETE of a revision (and, in PostgreSQL, a TRUNCATE),
+so revisions never change.
 
 ``get_store`` is the FastAPI dependency; it opens the store named by the ``SHAFTWRIGHT_DB``
 setting (see :mod:`app.settings`) once per location.
@@ -30,7 +36,8 @@ from contextlib import contextmanager
 from datetime import datetime, timezone
 from functools import lru_cache
 from pathlib import Path
-from typing import Annotated, Any, Iterator, Protocol, runtime_checkable
+from typing import Annotated, Any, ClassVar, Iterator, Protocol, runtime_checkable
+from urllib.parse import urlsplit, urlunsplit
 
 from fastapi import Depends
 from pydantic import BaseModel, ConfigDict
@@ -38,7 +45,7 @@ from pydantic import BaseModel, ConfigDict
 from app.settings import Settings, get_settings
 
 __all__ = [
-    "Store", "SqliteStore", "Revision", "RevisionInfo", "ConflictRecord",
+    "Store", "SqliteStore", "PostgresStore", "Revision", "RevisionInfo", "ConflictRecord",
     "StoreError", "NotFound", "StaleBase", "new_design_id", "is_design_id",
     "open_store", "get_store", "StoreDep", "ID_BYTES",
 ]
@@ -145,7 +152,8 @@ class Store(Protocol):
     def conflicts(self, design_id: str) -> list[ConflictRecord]: ...
 
 
-_SCHEMA = """
+# The tables both stores lay out; the two differ only where the SQL dialects do.
+_TABLES = """
 CREATE TABLE IF NOT EXISTS designs (
     id          TEXT PRIMARY KEY,
     created_at  TEXT NOT NULL
@@ -162,9 +170,9 @@ CREATE TABLE IF NOT EXISTS revisions (
     created_at     TEXT NOT NULL,
     base_revision  INTEGER,
     PRIMARY KEY (design_id, n)
-) WITHOUT ROWID;
+){revisions_options};
 CREATE TABLE IF NOT EXISTS conflicts (
-    id              INTEGER PRIMARY KEY AUTOINCREMENT,
+    id              {conflict_id},
     design_id       TEXT NOT NULL REFERENCES designs(id),
     base_revision   INTEGER NOT NULL,
     latest_revision INTEGER NOT NULL,
@@ -174,6 +182,10 @@ CREATE TABLE IF NOT EXISTS conflicts (
     created_at      TEXT NOT NULL
 );
 CREATE INDEX IF NOT EXISTS conflicts_by_design ON conflicts (design_id, id);
+"""
+
+_SCHEMA = _TABLES.format(revisions_options=" WITHOUT ROWID",
+                         conflict_id="INTEGER PRIMARY KEY AUTOINCREMENT") + """
 CREATE TRIGGER IF NOT EXISTS revisions_never_change BEFORE UPDATE ON revisions
 BEGIN SELECT RAISE(ABORT, 'revisions are immutable'); END;
 CREATE TRIGGER IF NOT EXISTS revisions_never_vanish BEFORE DELETE ON revisions
@@ -203,7 +215,151 @@ def _name(document: dict) -> str:
 _REV_COLS = "design_id, n, name, comment, author, created_at, engine_version, base_revision"
 
 
-class SqliteStore:
+class _SqlStore:
+    """What every SQL store shares: numbering, conflicts, checksums, reads, integrity check.
+
+    A subclass supplies the connection (:meth:`_connect`, one per operation), the write
+    transaction (:meth:`_write`), the lock that serialises saves to one design
+    (:meth:`_lock_design`) and its engine's own checks (:meth:`_engine_problems`). SQL is
+    written with ``?`` placeholders; ``_PARAM`` is the driver's own.
+    """
+
+    _PARAM: ClassVar[str] = "?"
+
+    def _connect(self):  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def _write(self):  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def _lock_design(self, con, design_id: str) -> None:
+        """Hold, until the transaction ends, the lock that serialises saves to ``design_id``."""
+
+    def _engine_problems(self, con) -> list[str]:
+        return []
+
+    def _run(self, con, sql: str, params: tuple = ()):
+        return con.execute(sql.replace("?", self._PARAM), params)
+
+    # --- writes ----------------------------------------------------------------------------
+
+    def create(self, document: dict, *, author: str = "", comment: str = "",
+               engine_version: str = "") -> Revision:
+        text, now = _dump(document), _now()
+        with self._write() as con:
+            for _ in range(5):  # a clash of 144 random bits will not happen; be sure anyway
+                design_id = new_design_id()
+                if self._run(con, "SELECT 1 FROM designs WHERE id=?", (design_id,)).fetchone() is None:
+                    break
+            self._run(con, "INSERT INTO designs (id, created_at) VALUES (?, ?)", (design_id, now))
+            self._insert(con, design_id, 1, text, document, author=author, comment=comment,
+                         engine_version=engine_version, now=now, base=None)
+            return self._read_revision(con, design_id, 1)
+
+    def add_revision(self, design_id: str, document: dict, *, base_revision: int | None,
+                     author: str = "", comment: str = "", engine_version: str = "") -> Revision:
+        text, now = _dump(document), _now()
+        conflict_id = None
+        with self._write() as con:
+            self._lock_design(con, design_id)
+            latest_n = self._run(con, "SELECT MAX(n) FROM revisions WHERE design_id=?",
+                                 (design_id,)).fetchone()[0]
+            if latest_n is None:
+                raise NotFound(f"no design {design_id!r}")
+            if base_revision is not None and base_revision != latest_n:
+                conflict_id = self._run(
+                    con, "INSERT INTO conflicts (design_id, base_revision, latest_revision, "
+                    "document, comment, author, created_at) VALUES (?,?,?,?,?,?,?) RETURNING id",
+                    (design_id, base_revision, latest_n, text, comment, author, now)).fetchone()[0]
+            else:
+                self._insert(con, design_id, latest_n + 1, text, document, author=author,
+                             comment=comment, engine_version=engine_version, now=now,
+                             base=base_revision)
+            saved = self._read_revision(con, design_id, latest_n + (conflict_id is None))
+        if conflict_id is not None:  # committed: the refused document is kept
+            raise StaleBase(design_id=design_id, base_revision=base_revision, latest=saved,
+                            conflict_id=conflict_id)
+        return saved
+
+    def _insert(self, con, design_id, n, text, document, *, author, comment, engine_version,
+                now, base):
+        self._run(
+            con,
+            f"INSERT INTO revisions ({_REV_COLS}, document, digest) VALUES (?,?,?,?,?,?,?,?,?,?)",
+            (design_id, n, _name(document), comment, author, now, engine_version, base,
+             text, _digest(text)))
+
+    # --- reads -----------------------------------------------------------------------------
+
+    def _one(self, sql: str, params: tuple):
+        with self._connect() as con:
+            return self._run(con, sql, params).fetchone()
+
+    def _all(self, sql: str, params: tuple) -> list:
+        with self._connect() as con:
+            return self._run(con, sql, params).fetchall()
+
+    def latest(self, design_id: str) -> Revision:
+        row = self._one(f"SELECT {_REV_COLS}, document, digest FROM revisions WHERE design_id=? "
+                        "ORDER BY n DESC LIMIT 1", (design_id,))
+        if row is None:
+            raise NotFound(f"no design {design_id!r}")
+        return _revision(row)
+
+    def revision(self, design_id: str, n: int) -> Revision:
+        with self._connect() as con:
+            return self._read_revision(con, design_id, n)
+
+    def _read_revision(self, con, design_id: str, n: int) -> Revision:
+        row = self._run(con, f"SELECT {_REV_COLS}, document, digest FROM revisions "
+                        "WHERE design_id=? AND n=?", (design_id, int(n))).fetchone()
+        if row is None:
+            raise NotFound(f"design {design_id!r} has no revision {n}")
+        return _revision(row)
+
+    def revisions(self, design_id: str) -> list[RevisionInfo]:
+        rows = self._all(f"SELECT {_REV_COLS} FROM revisions WHERE design_id=? ORDER BY n",
+                         (design_id,))
+        if not rows:
+            raise NotFound(f"no design {design_id!r}")
+        return [RevisionInfo(**dict(zip(_REV_COLS.split(", "), r))) for r in rows]
+
+    def conflict(self, design_id: str, conflict_id: int) -> ConflictRecord:
+        row = self._one(f"SELECT {_CON_COLS} FROM conflicts WHERE design_id=? AND id=?",
+                        (design_id, int(conflict_id)))
+        if row is None:
+            raise NotFound(f"design {design_id!r} has no conflict record {conflict_id}")
+        return _conflict(row)
+
+    def conflicts(self, design_id: str) -> list[ConflictRecord]:
+        rows = self._all(f"SELECT {_CON_COLS} FROM conflicts WHERE design_id=? ORDER BY id",
+                         (design_id,))
+        return [_conflict(r) for r in rows]
+
+    def check_integrity(self) -> list[str]:
+        """Problems found in the store: the engine's own check, revision gaps, altered documents.
+
+        An empty list means the store is consistent.
+        """
+        problems: list[str] = []
+        with self._connect() as con:
+            problems += self._engine_problems(con)
+            for design_id, count, top in self._run(
+                    con, "SELECT design_id, COUNT(*), MAX(n) FROM revisions GROUP BY design_id"):
+                if count != top:
+                    problems.append(f"design {design_id}: {count} revisions but the latest is {top}")
+            for design_id, n, text, digest in self._run(
+                    con, "SELECT design_id, n, document, digest FROM revisions"):
+                if _digest(text) != digest:
+                    problems.append(f"design {design_id} revision {n}: document does not match its digest")
+            orphans = self._run(con, "SELECT COUNT(*) FROM designs d WHERE NOT EXISTS "
+                                "(SELECT 1 FROM revisions r WHERE r.design_id = d.id)").fetchone()[0]
+            if orphans:
+                problems.append(f"{orphans} design(s) without a revision")
+        return problems
+
+
+class SqliteStore(_SqlStore):
     """:class:`Store` in one SQLite file (WAL journal), created on first use.
 
     One short-lived connection per operation, so the object is safe to share between
@@ -234,7 +390,8 @@ class SqliteStore:
 
     @contextmanager
     def _write(self) -> Iterator[sqlite3.Connection]:
-        """One write transaction; BEGIN IMMEDIATE takes the write lock up front."""
+        """One write transaction; BEGIN IMMEDIATE takes the file's write lock up front, which
+        also serialises the saves to each design (so :meth:`_lock_design` has nothing to do)."""
         with self._connect() as con:
             con.execute("BEGIN IMMEDIATE")
             try:
@@ -244,124 +401,95 @@ class SqliteStore:
                 raise
             con.execute("COMMIT")
 
-    # --- writes ----------------------------------------------------------------------------
+    def _engine_problems(self, con) -> list[str]:
+        return [r[0] for r in con.execute("PRAGMA integrity_check") if r[0] != "ok"]
 
-    def create(self, document: dict, *, author: str = "", comment: str = "",
-               engine_version: str = "") -> Revision:
-        text, now = _dump(document), _now()
+
+_PG_SCHEMA = _TABLES.format(
+    revisions_options="",
+    conflict_id="BIGINT GENERATED ALWAYS AS IDENTITY PRIMARY KEY") + """
+CREATE OR REPLACE FUNCTION shaftwright_refuse_change() RETURNS trigger LANGUAGE plpgsql AS $$
+BEGIN RAISE EXCEPTION '% are immutable', TG_ARGV[0] USING ERRCODE = 'integrity_constraint_violation'; END $$;
+CREATE OR REPLACE TRIGGER revisions_never_change BEFORE UPDATE OR DELETE ON revisions
+FOR EACH ROW EXECUTE FUNCTION shaftwright_refuse_change('revisions');
+CREATE OR REPLACE TRIGGER revisions_never_truncated BEFORE TRUNCATE ON revisions
+FOR EACH STATEMENT EXECUTE FUNCTION shaftwright_refuse_change('revisions');
+CREATE OR REPLACE TRIGGER conflicts_never_change BEFORE UPDATE ON conflicts
+FOR EACH ROW EXECUTE FUNCTION shaftwright_refuse_change('conflict records');
+COMMENT ON TABLE revisions IS 'shaftwright store schema """ + str(SCHEMA_VERSION) + "';\n"
+_PG_TRIGGERS = {"revisions_never_change", "revisions_never_truncated", "conflicts_never_change"}
+_PG_SCHEMA_LOCK = 0x5348_4146  # advisory-lock key: one process at a time lays the tables out
+
+
+def _redacted(url: str) -> str:
+    """``url`` with any password replaced by ``***`` (for messages and ``repr``)."""
+    parts = urlsplit(url)
+    if parts.password is None:
+        return url
+    netloc = parts.netloc.replace(f":{parts.password}@", ":***@", 1)
+    return urlunsplit(parts._replace(netloc=netloc))
+
+
+class PostgresStore(_SqlStore):
+    """:class:`Store` in a PostgreSQL database (server 14 or later), for several workers.
+
+    ``url`` is a libpq connection URL (``postgresql://user@host/db``; ``postgresql:///db``
+    uses the local socket). The tables are created on first use in the connection's first
+    schema (``options=-csearch_path=…`` in the URL picks another). One short-lived connection
+    per operation, so the object may be shared between threads and used after a fork; a save
+    locks its design's row with ``SELECT … FOR UPDATE`` until it commits, so concurrent saves
+    from any number of processes are numbered one after another without gaps.
+
+    Raises :class:`StoreError` when the driver is missing or the server cannot be reached.
+    """
+
+    _PARAM: ClassVar[str] = "%s"
+
+    def __init__(self, url: str, *, connect_timeout_s: int = 10):
+        try:
+            import psycopg
+        except ImportError:
+            raise StoreError("a PostgreSQL store needs the psycopg package: "
+                             "pip install 'shaftwright[postgres]'") from None
+        self._psycopg = psycopg
+        self.url = url
+        self.connect_timeout_s = connect_timeout_s
         with self._write() as con:
-            for _ in range(5):  # a clash of 144 random bits will not happen; be sure anyway
-                design_id = new_design_id()
-                if con.execute("SELECT 1 FROM designs WHERE id=?", (design_id,)).fetchone() is None:
-                    break
-            con.execute("INSERT INTO designs (id, created_at) VALUES (?, ?)", (design_id, now))
-            self._insert(con, design_id, 1, text, document, author=author, comment=comment,
-                         engine_version=engine_version, now=now, base=None)
-        return self.revision(design_id, 1)
+            con.execute("SELECT pg_advisory_xact_lock(%s)", (_PG_SCHEMA_LOCK,))
+            if con.execute("SELECT to_regclass('revisions')").fetchone()[0] is None:
+                con.execute(_PG_SCHEMA)
 
-    def add_revision(self, design_id: str, document: dict, *, base_revision: int | None,
-                     author: str = "", comment: str = "", engine_version: str = "") -> Revision:
-        text, now = _dump(document), _now()
-        with self._connect() as con:
-            con.execute("BEGIN IMMEDIATE")
-            try:
-                row = con.execute("SELECT MAX(n) FROM revisions WHERE design_id=?",
-                                  (design_id,)).fetchone()
-                latest_n = row[0] if row else None
-                if latest_n is None:
-                    raise NotFound(f"no design {design_id!r}")
-                if base_revision is not None and base_revision != latest_n:
-                    cur = con.execute(
-                        "INSERT INTO conflicts (design_id, base_revision, latest_revision, "
-                        "document, comment, author, created_at) VALUES (?,?,?,?,?,?,?)",
-                        (design_id, base_revision, latest_n, text, comment, author, now))
-                    conflict_id = cur.lastrowid
-                    con.execute("COMMIT")
-                    raise StaleBase(design_id=design_id, base_revision=base_revision,
-                                    latest=self.revision(design_id, latest_n),
-                                    conflict_id=conflict_id)
-                n = latest_n + 1
-                self._insert(con, design_id, n, text, document, author=author, comment=comment,
-                             engine_version=engine_version, now=now, base=base_revision)
-                con.execute("COMMIT")
-            except StaleBase:
-                raise
-            except BaseException:
-                if con.in_transaction:
-                    con.execute("ROLLBACK")
-                raise
-        return self.revision(design_id, n)
+    def __repr__(self) -> str:
+        return f"PostgresStore({_redacted(self.url)!r})"
 
-    @staticmethod
-    def _insert(con, design_id, n, text, document, *, author, comment, engine_version, now, base):
-        con.execute(
-            f"INSERT INTO revisions ({_REV_COLS}, document, digest) VALUES (?,?,?,?,?,?,?,?,?,?)",
-            (design_id, n, _name(document), comment, author, now, engine_version, base,
-             text, _digest(text)))
+    @contextmanager
+    def _connect(self):
+        try:
+            con = self._psycopg.connect(self.url, autocommit=True,
+                                        connect_timeout=self.connect_timeout_s)
+        except self._psycopg.OperationalError as exc:
+            raise StoreError(f"cannot reach the PostgreSQL store at {_redacted(self.url)}: "
+                             f"{str(exc).strip()}") from None
+        try:
+            yield con
+        finally:
+            con.close()
 
-    # --- reads -----------------------------------------------------------------------------
+    @contextmanager
+    def _write(self):
+        """One transaction: committed when the block ends, rolled back when it raises."""
+        with self._connect() as con, con.transaction():
+            yield con
 
-    def latest(self, design_id: str) -> Revision:
-        with self._connect() as con:
-            row = con.execute(
-                f"SELECT {_REV_COLS}, document, digest FROM revisions WHERE design_id=? "
-                "ORDER BY n DESC LIMIT 1", (design_id,)).fetchone()
-        if row is None:
-            raise NotFound(f"no design {design_id!r}")
-        return _revision(row)
+    def _lock_design(self, con, design_id: str) -> None:
+        con.execute("SELECT id FROM designs WHERE id=%s FOR UPDATE", (design_id,))
 
-    def revision(self, design_id: str, n: int) -> Revision:
-        with self._connect() as con:
-            row = con.execute(
-                f"SELECT {_REV_COLS}, document, digest FROM revisions WHERE design_id=? AND n=?",
-                (design_id, int(n))).fetchone()
-        if row is None:
-            raise NotFound(f"design {design_id!r} has no revision {n}")
-        return _revision(row)
-
-    def revisions(self, design_id: str) -> list[RevisionInfo]:
-        with self._connect() as con:
-            rows = con.execute(f"SELECT {_REV_COLS} FROM revisions WHERE design_id=? ORDER BY n",
-                               (design_id,)).fetchall()
-        if not rows:
-            raise NotFound(f"no design {design_id!r}")
-        return [RevisionInfo(**dict(zip(_REV_COLS.split(", "), r))) for r in rows]
-
-    def conflict(self, design_id: str, conflict_id: int) -> ConflictRecord:
-        with self._connect() as con:
-            row = con.execute(f"SELECT {_CON_COLS} FROM conflicts WHERE design_id=? AND id=?",
-                              (design_id, int(conflict_id))).fetchone()
-        if row is None:
-            raise NotFound(f"design {design_id!r} has no conflict record {conflict_id}")
-        return _conflict(row)
-
-    def conflicts(self, design_id: str) -> list[ConflictRecord]:
-        with self._connect() as con:
-            rows = con.execute(f"SELECT {_CON_COLS} FROM conflicts WHERE design_id=? ORDER BY id",
-                               (design_id,)).fetchall()
-        return [_conflict(r) for r in rows]
-
-    def check_integrity(self) -> list[str]:
-        """Problems found in the file: SQLite's own check, revision gaps, altered documents.
-
-        An empty list means the file is consistent.
-        """
-        problems: list[str] = []
-        with self._connect() as con:
-            problems += [r[0] for r in con.execute("PRAGMA integrity_check") if r[0] != "ok"]
-            for design_id, count, top in con.execute(
-                    "SELECT design_id, COUNT(*), MAX(n) FROM revisions GROUP BY design_id"):
-                if count != top:
-                    problems.append(f"design {design_id}: {count} revisions but the latest is {top}")
-            for design_id, n, text, digest in con.execute(
-                    "SELECT design_id, n, document, digest FROM revisions"):
-                if _digest(text) != digest:
-                    problems.append(f"design {design_id} revision {n}: document does not match its digest")
-            orphans = con.execute("SELECT COUNT(*) FROM designs d WHERE NOT EXISTS "
-                                  "(SELECT 1 FROM revisions r WHERE r.design_id = d.id)").fetchone()[0]
-            if orphans:
-                problems.append(f"{orphans} design(s) without a revision")
-        return problems
+    def _engine_problems(self, con) -> list[str]:
+        found = {r[0] for r in con.execute(
+            "SELECT tgname FROM pg_trigger WHERE tgenabled <> 'D' AND tgrelid IN "
+            "(to_regclass('revisions'), to_regclass('conflicts'))")}
+        return [f"trigger {name} is missing or disabled: records could be changed"
+                for name in sorted(_PG_TRIGGERS - found)]
 
 
 _CON_COLS = "id, design_id, base_revision, latest_revision, document, comment, author, created_at"
@@ -381,9 +509,10 @@ def _conflict(row) -> ConflictRecord:
 
 @lru_cache(maxsize=16)
 def open_store(location: str) -> Store:
-    """Open (once per location) the store at ``location``: a file path or ``sqlite:///path``."""
+    """Open (once per location) the store at ``location``: a ``postgresql://`` (or
+    ``postgres://``) URL, ``sqlite:///path`` or a file path."""
     if location.startswith(("postgresql:", "postgres:")):
-        raise StoreError("a PostgreSQL store is not available yet; set SHAFTWRIGHT_DB to a file path")
+        return PostgresStore(location)
     if location.startswith("sqlite:///"):
         location = location[len("sqlite:///"):]
     return SqliteStore(location)

@@ -1,6 +1,6 @@
 """Helper run as a subprocess by the kill test: save revisions in a loop, report each commit.
 
-Usage: python -m tests.store.saver DB_PATH DESIGN_ID
+Usage: python -m tests.store.saver LOCATION DESIGN_ID  (a file path or a postgresql:// URL)
 Prints ``n`` on its own line (flushed) after revision ``n`` is committed, forever.
 """
 from __future__ import annotations
@@ -9,14 +9,14 @@ import json
 import sys
 from pathlib import Path
 
-from app.store import SqliteStore
+from app.store import open_store
 
 HERE = Path(__file__).resolve().parent
 
 
 def main() -> None:
     db, design_id = sys.argv[1], sys.argv[2]
-    store = SqliteStore(db)
+    store = open_store(db)
     doc = json.loads((HERE / "example_design.json").read_text(encoding="utf-8"))
     doc["notes"] = "x" * 20000  # a large-ish document makes each write take longer
     i = 0

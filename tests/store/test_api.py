@@ -1,20 +1,15 @@
-"""The /api/designs endpoints, import/export, the input limits, and restarting the app."""
+"""The /api/designs endpoints, import/export, the input limits, and restarting the app.
+
+Each test runs on both stores (``[sqlite]``, ``[postgres]``; see conftest.py).
+"""
 from __future__ import annotations
 
 import json
-import sqlite3
 import threading
 
 import httpx
 
-from tests.store.conftest import make_client
-
-
-def _count_designs(db_path) -> int:
-    if not db_path.exists():
-        return 0
-    with sqlite3.connect(db_path) as con:
-        return con.execute("SELECT COUNT(*) FROM designs").fetchone()[0]
+from tests.store.conftest import count_designs, make_client
 
 
 def test_create_then_read_back(client, design):
@@ -67,12 +62,12 @@ def test_unknown_and_malformed_ids_are_404(client, design):
     assert r.status_code == 404
 
 
-def test_invalid_design_is_refused_with_its_path_and_stores_nothing(client, design, db_path):
+def test_invalid_design_is_refused_with_its_path_and_stores_nothing(client, design, db_location):
     design["supports"][1]["x_mm"] = 9999
     r = client.post("/api/designs", json={"design": design})
     assert r.status_code == 422
     assert any(e["path"] == "supports[1].x_mm" for e in r.json()["errors"])
-    assert _count_designs(db_path) == 0
+    assert count_designs(db_location) == 0
 
 
 def test_bad_save_requests(client, design):
@@ -89,15 +84,15 @@ def test_bad_save_requests(client, design):
     assert r.status_code == 422 and "not valid JSON" in r.json()["errors"][0]["message"]
 
 
-def test_document_over_one_megabyte_is_refused(client, design, db_path):
+def test_document_over_one_megabyte_is_refused(client, design, db_location):
     design["notes"] = "n" * 1_000_001
     r = client.post("/api/designs", json=design)
     assert r.status_code == 413
     assert "at most 1,000,000 bytes" in r.json()["errors"][0]["message"]
-    assert _count_designs(db_path) == 0
+    assert count_designs(db_location) == 0
 
 
-def test_absurd_counts_and_nesting_are_refused(client, design, db_path):
+def test_absurd_counts_and_nesting_are_refused(client, design, db_location):
     many = {**design, "elements": [{"id": f"F{i}", "kind": "force", "x_mm": 100, "Fy_N": 1}
                                    for i in range(501)]}
     r = client.post("/api/designs", json=many)
@@ -116,7 +111,7 @@ def test_absurd_counts_and_nesting_are_refused(client, design, db_path):
     bomb = b"[" * 100_000 + b"]" * 100_000
     r = client.post("/api/designs", content=bomb, headers={"content-type": "application/json"})
     assert r.status_code == 422 and "nested too deeply" in r.json()["errors"][0]["message"]
-    assert _count_designs(db_path) == 0
+    assert count_designs(db_location) == 0
 
 
 def test_export_then_import_round_trip(client, design):
@@ -132,7 +127,7 @@ def test_export_then_import_round_trip(client, design):
     assert client.get(f"/api/designs/{new['id']}").json()["design"] == design
 
 
-def test_bad_import_says_why_and_imports_nothing(client, design, db_path):
+def test_bad_import_says_why_and_imports_nothing(client, design, db_location):
     bad = dict(design)
     bad["load_cases"] = [{"name": "only", "time_fraction": 0.5, "speed_rpm": 100}]
     cases = [
@@ -150,7 +145,7 @@ def test_bad_import_says_why_and_imports_nothing(client, design, db_path):
     big = json.dumps({**design, "notes": "n" * 1_100_000}).encode()
     r = client.post("/api/designs/import", files={"file": ("big.json", big, "application/json")})
     assert r.status_code == 413
-    assert _count_designs(db_path) == 0
+    assert count_designs(db_location) == 0
 
 
 def test_import_page_redirects_or_explains(client, design):
@@ -161,9 +156,9 @@ def test_import_page_redirects_or_explains(client, design):
     assert bad.status_code == 422 and "was not imported" in bad.text and "not valid JSON" in bad.text
 
 
-def test_save_and_reload_after_rebuilding_the_app(db_path, design):
-    did = make_client(db_path).post("/api/designs", json=design).json()["id"]
-    fresh = make_client(db_path)  # a new application object on the same file
+def test_save_and_reload_after_rebuilding_the_app(db_location, design):
+    did = make_client(db_location).post("/api/designs", json=design).json()["id"]
+    fresh = make_client(db_location)  # a new application object on the same store
     assert fresh.get(f"/api/designs/{did}").json()["design"] == design
 
 
@@ -173,7 +168,7 @@ def test_save_and_reload_after_restarting_the_server(server_factory, design):
     httpx.post(first.url + f"/api/designs/{did}/revisions",
                json={"design": {**design, "name": "r2"}, "base_revision": 1})
     first.stop()
-    second = server_factory()  # a new process on the same SHAFTWRIGHT_DB file
+    second = server_factory()  # a new process on the same SHAFTWRIGHT_DB
     got = httpx.get(second.url + f"/api/designs/{did}").json()
     assert got["revision"] == 2 and got["design"]["name"] == "r2"
     assert httpx.get(second.url + f"/api/designs/{did}/revisions/1").json()["design"] == design

@@ -1,6 +1,8 @@
-"""The SQLite store: revisions are numbered, immutable, never lost.
+"""The stores: revisions are numbered, immutable, never lost.
 
-These are behaviour tests of our own store (no published values are involved).
+These are behaviour tests of our own store (no published values are involved). A test that
+takes ``store`` or ``db_location`` runs on both backends (``[sqlite]``, ``[postgres]``; see
+conftest.py); the SQLite-only ones name ``db_path``. PostgreSQL's own: test_postgres.py.
 """
 from __future__ import annotations
 
@@ -17,8 +19,9 @@ from pathlib import Path
 import pytest
 
 from app.settings import Settings
-from app.store import (ID_BYTES, NotFound, SqliteStore, StaleBase, Store, StoreError,
-                       is_design_id, new_design_id, open_store)
+from app.store import (ID_BYTES, NotFound, SqliteStore, StaleBase, Store, is_design_id,
+                       new_design_id, open_store)
+from tests.store.conftest import fresh_store
 
 ROOT = Path(__file__).resolve().parents[2]
 
@@ -45,11 +48,6 @@ def test_default_location_is_the_working_directory(tmp_path, monkeypatch):
     assert Settings.from_env({"SHAFTWRIGHT_DB": str(tmp_path / "x" / "y.db")}).db.endswith("y.db")
 
 
-def test_postgres_url_is_refused_clearly():
-    with pytest.raises(StoreError, match="PostgreSQL store is not available"):
-        open_store("postgresql://team@localhost/shafts")
-
-
 def test_ids_are_random_and_at_least_128_bits():
     ids = {new_design_id() for _ in range(2000)}
     assert len(ids) == 2000
@@ -58,15 +56,14 @@ def test_ids_are_random_and_at_least_128_bits():
     assert not is_design_id("../../etc/passwd") and not is_design_id("1")
 
 
-def test_reload_after_reopening(db_path, design):
-    rev = SqliteStore(db_path).create(design, comment="one")
-    again = SqliteStore(db_path)  # a new object, as after a restart
+def test_reload_after_reopening(db_location, design):
+    rev = fresh_store(db_location).create(design, comment="one")
+    again = fresh_store(db_location)  # a new object, as after a restart
     assert again.latest(rev.design_id).document == design
     assert again.revision(rev.design_id, 1).comment == "one"
 
 
-def test_saving_adds_revisions_and_never_changes_old_ones(db_path, design):
-    store = SqliteStore(db_path)
+def test_saving_adds_revisions_and_never_changes_old_ones(store, design):
     first = store.create(design, comment="r1")
     seen = [first]
     for k in range(2, 6):
@@ -93,8 +90,7 @@ def test_database_refuses_to_alter_a_revision(db_path, design):
     assert store.revision(rev.design_id, 1) == rev
 
 
-def test_stale_base_is_refused_and_loses_nothing(db_path, design):
-    store = SqliteStore(db_path)
+def test_stale_base_is_refused_and_loses_nothing(store, design):
     r1 = store.create(design, author="Ana")
     theirs = {**design, "name": "theirs"}
     r2 = store.add_revision(r1.design_id, theirs, base_revision=1, author="Ben")
@@ -113,8 +109,7 @@ def test_stale_base_is_refused_and_loses_nothing(db_path, design):
     assert store.conflicts(r1.design_id) == [kept]
 
 
-def test_unknown_design_and_revision(db_path, design):
-    store = SqliteStore(db_path)
+def test_unknown_design_and_revision(store, design):
     with pytest.raises(NotFound):
         store.latest("nope")
     with pytest.raises(NotFound):
@@ -124,8 +119,7 @@ def test_unknown_design_and_revision(db_path, design):
         store.revision(rev.design_id, 2)
 
 
-def test_ten_threads_saving_at_once_lose_no_revision(db_path, design):
-    store = SqliteStore(db_path)
+def test_ten_threads_saving_at_once_lose_no_revision(store, design):
     first = store.create(design)
     barrier = threading.Barrier(10)
     errors: list[BaseException] = []
@@ -151,8 +145,7 @@ def test_ten_threads_saving_at_once_lose_no_revision(db_path, design):
     assert store.check_integrity() == []
 
 
-def test_ten_clients_on_one_base_one_wins_nine_are_kept(db_path, design):
-    store = SqliteStore(db_path)
+def test_ten_clients_on_one_base_one_wins_nine_are_kept(store, design):
     first = store.create(design)
     barrier = threading.Barrier(10)
     outcome: dict[int, str] = {}
@@ -177,18 +170,17 @@ def test_ten_clients_on_one_base_one_wins_nine_are_kept(db_path, design):
     assert kept == {str(k) for k, v in outcome.items() if v == "stale"}  # nothing lost
 
 
-def _process_client(db: str, design_id: str, k: int, design: dict) -> None:
-    store = SqliteStore(db)
+def _process_client(location: str, design_id: str, k: int, design: dict) -> None:
+    store = fresh_store(location)
     for j in range(5):
         store.add_revision(design_id, {**design, "name": f"p{k}-{j}"}, base_revision=None,
                            comment=f"{k}/{j}")
 
 
-def test_ten_processes_saving_at_once_lose_no_revision(db_path, design):
-    store = SqliteStore(db_path)
+def test_ten_processes_saving_at_once_lose_no_revision(store, db_location, design):
     first = store.create(design)
     ctx = mp.get_context("spawn")
-    procs = [ctx.Process(target=_process_client, args=(str(db_path), first.design_id, k, design))
+    procs = [ctx.Process(target=_process_client, args=(db_location, first.design_id, k, design))
              for k in range(10)]
     for p in procs:
         p.start()
@@ -198,14 +190,15 @@ def test_ten_processes_saving_at_once_lose_no_revision(db_path, design):
     revs = store.revisions(first.design_id)
     assert [r.n for r in revs] == list(range(1, 52))
     assert {r.comment for r in revs[1:]} == {f"{k}/{j}" for k in range(10) for j in range(5)}
+    assert store.check_integrity() == []
 
 
 @pytest.mark.parametrize("commits_before_kill", [1, 7, 25])
-def test_killed_mid_save_leaves_a_consistent_database(db_path, design, commits_before_kill):
-    store = SqliteStore(db_path)
+def test_killed_mid_save_leaves_a_consistent_database(store, db_location, design,
+                                                      commits_before_kill):
     first = store.create(design)
     env = {**os.environ, "PYTHONPATH": str(ROOT)}
-    proc = subprocess.Popen([sys.executable, "-m", "tests.store.saver", str(db_path), first.design_id],
+    proc = subprocess.Popen([sys.executable, "-m", "tests.store.saver", db_location, first.design_id],
                             cwd=ROOT, env=env, stdout=subprocess.PIPE, text=True)
     committed = []
     try:
@@ -222,8 +215,8 @@ def test_killed_mid_save_leaves_a_consistent_database(db_path, design, commits_b
             proc.kill()
         proc.stdout.close()
     assert proc.returncode == -signal.SIGKILL
-    reopened = SqliteStore(db_path)
-    assert reopened.check_integrity() == []  # SQLite's check, no gaps, digests match
+    reopened = fresh_store(db_location)
+    assert reopened.check_integrity() == []  # the engine's check, no gaps, digests match
     numbers = [r.n for r in reopened.revisions(first.design_id)]
     assert numbers == list(range(1, numbers[-1] + 1))
     assert set(committed) <= set(numbers)  # every committed revision survived
@@ -232,3 +225,18 @@ def test_killed_mid_save_leaves_a_consistent_database(db_path, design, commits_b
         assert reopened.revision(first.design_id, n).name == f"save {n - 1}"
     nxt = reopened.add_revision(first.design_id, design, base_revision=numbers[-1])
     assert nxt.n == numbers[-1] + 1  # and it still takes saves
+
+
+def _open_and_save(location: str, k: int, design: dict) -> None:
+    fresh_store(location).create({**design, "name": f"opened by {k}"})
+
+
+def test_several_processes_opening_a_new_store_at_once(db_location, design):
+    ctx = mp.get_context("spawn")
+    procs = [ctx.Process(target=_open_and_save, args=(db_location, k, design)) for k in range(4)]
+    for p in procs:
+        p.start()
+    for p in procs:
+        p.join(timeout=120)
+    assert [p.exitcode for p in procs] == [0] * 4  # the tables are laid out once, by one of them
+    assert fresh_store(db_location).check_integrity() == []
