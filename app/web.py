@@ -30,14 +30,15 @@ from typing import Any, Iterable, Mapping
 
 from app import units
 from engine.model import (BEARING_TYPES, ELEMENT_KINDS, BevelGear, Coupling, Gear, Issue, LoadCase,
-                          Material, PointForce, PointMoment, Pulley, Requirements, Segment, Sprocket,
+                          Lubricant, Material, PointForce, PointMoment, Pulley, Requirements, Segment, Sprocket,
                           Support)
 
 __all__ = [
     "Field", "Row", "Section", "FormState", "LISTS", "ELEMENT_FIELDS", "design_to_form",
     "form_to_design", "apply_op", "editor_sections", "place_issues", "slug", "parse_number",
     "BEARING_LABELS", "KIND_LABELS", "read_form", "BT_NAME", "BT_CSV", "BearingTableView",
-    "bearing_table_view", "bearing_table_issues", "BUNDLED_TABLE_NAME",
+    "bearing_table_view", "bearing_table_issues", "BUNDLED_TABLE_NAME", "REQUIREMENT_FIELDS", "upgrade_form",
+    "LUBRICANT_FIELDS", "LOAD_CASE_FIELDS",
 ]
 
 FormState = dict[str, str]
@@ -67,7 +68,9 @@ class Field:
     required: bool = True
     options: tuple[tuple[str, str], ...] = ()
     empty_means: str = "omit"  # omit | null  (what an empty optional box sends)
-    hint: str = ""
+    hint: str = ""  # placeholder text in the empty box
+    note: str = ""  # a short line shown across the grid after the box
+    group: bool = False  # starts a group of its own: the box begins a new line of the grid
 
 
 def _f(key: str, label: str, quantity: str = "ratio", **kw: Any) -> Field:
@@ -156,16 +159,36 @@ LOAD_CASE_FIELDS = (
     _f("torque_factor", "torque factor"),
     _opt("force_factor", "force factor"),
 )
-REQUIREMENT_FIELDS = (
+_REQ_BEARINGS = (
     _f("life_h", "required bearing life", "time"),
     _f("reliability_pct", "reliability", "percent"),
     _f("application_factor", "application factor"),
     _f("s0_min", "min. static safety s0"),
-    _opt("fatigue_safety_min", "min. fatigue safety"),
+)
+# ISO 281:2007 guideline values of ec for Dpw < 100 mm (from memory: /work/shared/references.md)
+_EC_BANDS = ("1 extreme cleanliness", "0.8–0.6 high", "0.6–0.5 normal", "0.5–0.3 slight",
+             "0.3–0.1 typical", "0.1–0 severe", "0 very severe")
+_REQ_EC = _opt("contamination_ec", "contamination factor ec", hint="empty: no aISO",
+               note="contamination factor ec, guide values (ISO 281, Dpw < 100 mm): "
+                    + " · ".join(b.replace(" ", "\u00a0").replace("–", "\u2060–\u2060") for b in _EC_BANDS)
+                    + ". Leave the ISO VG grade and temperature empty for no aISO.")
+_REQ_SHAFT = (
+    _opt("fatigue_safety_min", "min. fatigue safety", group=True),
     _opt("yield_safety_min", "min. yield safety"),
     _opt("gear_deflection_max_mm", "max. deflection at gears", "deflection"),
     _opt("gear_slope_max_rad", "max. slope at gears", "slope"),
 )
+REQUIREMENT_FIELDS = _REQ_BEARINGS + (_REQ_EC,) + _REQ_SHAFT
+# requirements.lubricant.*: both grade and temperature, or neither (then no aISO). The
+# temperature stays in °C in either unit system: app.units has no temperature quantity.
+LUBRICANT_FIELDS = (
+    _opt("iso_vg", "ISO VG grade", "viscosity", hint="empty: no aISO", group=True),
+    _opt("operating_temp_C", "operating temperature", "temperature", hint="empty: no aISO"),
+    _opt("viscosity_index", "viscosity index"),
+)
+LUB = "requirements.lubricant."  # form prefix of the lubricant's fields
+# labels of quantities that app.units does not convert (the same in both systems)
+_FIXED_UNITS = {"viscosity": "mm²/s at 40 °C", "temperature": "°C"}
 
 # list path -> (fields of one row or None for elements, defaults of a new row in SI)
 LISTS: dict[str, str] = {"shaft.segments": "segment", "supports": "support",
@@ -186,6 +209,11 @@ _NEW_ELEMENT_DEFAULTS: dict[str, dict[str, Any]] = {
 }
 
 _IDX = re.compile(r"^(shaft\.segments|supports|elements|load_cases)\[(\d+)\]\.(.+)$")
+
+
+def _unit(f: Field, system: str) -> str:
+    """Unit label of a number field in ``system`` ("" for a plain ratio)."""
+    return units.unit_label(f.quantity, system) or _FIXED_UNITS.get(f.quantity, "")
 
 
 def slug(path: str) -> str:
@@ -277,8 +305,46 @@ def design_to_form(design: Mapping[str, Any], system: str = "si") -> FormState:
                  model=_KIND_MODEL.get(kind))
     for i, c in enumerate(d.get("load_cases") or []):
         _put_obj(out, f"load_cases[{i}].", c, LOAD_CASE_FIELDS, system, model=LoadCase)
-    _put_obj(out, "requirements.", dict(d.get("requirements") or {}), REQUIREMENT_FIELDS, system,
-             model=Requirements)
+    req = dict(d.get("requirements") or {})
+    lub = req.get("lubricant")
+    if lub is None or isinstance(lub, dict):  # else: not a lubricant; _extra keeps it for the engine
+        _put_obj(out, LUB, dict(lub or {}), LUBRICANT_FIELDS, system, model=Lubricant)
+        req.pop("lubricant", None)
+    else:
+        _put_obj(out, LUB, {}, LUBRICANT_FIELDS, system)
+    _put_obj(out, "requirements.", req, REQUIREMENT_FIELDS, system, model=Requirements)
+    return out
+
+
+def upgrade_form(form: Mapping[str, str]) -> FormState:
+    """Form state saved before a key got its own box (a browser's working copy): the key
+    moves out of the hidden ``requirements._extra`` into its box, so it is shown, and so an
+    empty box means what it says. Form state that has the boxes is returned as it is."""
+    out = dict(form)
+    raw = out.get("requirements._extra", "")
+    try:
+        extra = json.loads(raw) if raw else {}
+    except (ValueError, RecursionError):
+        return out
+    if not isinstance(extra, dict):
+        return out
+    system = out.get("units", "si") if out.get("units") in units.SYSTEMS else "si"
+    part: FormState = {}
+    moved = {f.key: extra.pop(f.key) for f in REQUIREMENT_FIELDS
+             if "requirements." + f.key not in out and f.key in extra}
+    try:
+        _put_obj(part, "requirements.", moved, [f for f in REQUIREMENT_FIELDS if f.key in moved], system)
+        if not any(LUB + f.key in out for f in LUBRICANT_FIELDS) and isinstance(extra.get("lubricant"), dict):
+            _put_obj(part, LUB, extra.pop("lubricant"), LUBRICANT_FIELDS, system)
+    except (TypeError, ValueError):  # a value that is not a number: leave it all where it was
+        return out
+    if not part:
+        return out
+    out.update(part)
+    if extra:
+        out["requirements._extra"] = json.dumps(extra, separators=(",", ":"))
+    else:
+        out.pop("requirements._extra", None)
     return out
 
 
@@ -322,7 +388,7 @@ def _read_obj(form: Mapping[str, str], prefix: str, fields: Iterable[Field], sys
             try:
                 obj[f.key] = units.from_display(parse_number(text), f.quantity, system)
             except ValueError:
-                lab = units.unit_label(f.quantity, system)
+                lab = _unit(f, system)
                 issues.append(Issue(path=path, message=f"{f.label} must be a number"
                                     + (f" in {lab}" if lab else "") + f", not “{text.strip()}”"))
         else:
@@ -364,8 +430,30 @@ def form_to_design(form: Mapping[str, str]) -> tuple[dict[str, Any], list[Issue]
     d["load_cases"] = [_read_obj(form, f"load_cases[{i}].", LOAD_CASE_FIELDS, system, issues)
                        for i in _indices(form, "load_cases")]
     d["requirements"] = _read_obj(form, "requirements.", REQUIREMENT_FIELDS, system, issues)
+    _read_lubricant(form, d["requirements"], system, issues)
     # ids must stay at original indices for the paths to match: renumber nothing here.
     return d, issues
+
+
+def _read_lubricant(form: Mapping[str, str], req: dict[str, Any], system: str,
+                    issues: list[Issue]) -> None:
+    """``requirements.lubricant`` from its three boxes into ``req``.
+
+    All three empty: no lubricant key (no modified life with aISO; a non-mapping that
+    ``requirements._extra`` carried stays, for the engine to report). Any one given: the ISO
+    VG grade and the operating temperature are both needed, and a missing one is reported
+    at its own box, naming what was given.
+    """
+    given = [f for f in LUBRICANT_FIELDS if form.get(LUB + f.key, "").strip()]
+    if not given:
+        return
+    lub = _read_obj(form, LUB, LUBRICANT_FIELDS, system, issues)
+    names = " and ".join(f.label for f in given)
+    for f in LUBRICANT_FIELDS[:2]:
+        if f not in given:
+            issues.append(Issue(path=LUB + f.key, message=(
+                f"{f.label} is needed with the {names} (or leave the lubricant empty: no aISO)")))
+    req["lubricant"] = lub
 
 
 def _read_bearing_table(form: Mapping[str, str], d: dict[str, Any], issues: list[Issue]) -> None:
@@ -510,6 +598,8 @@ def _switch_units(form: FormState, new: str) -> FormState:
         conv("shaft.material." + f.key, f)
     for f in REQUIREMENT_FIELDS:
         conv("requirements." + f.key, f)
+    for f in LUBRICANT_FIELDS:
+        conv(LUB + f.key, f)
     for lp, fields in (("shaft.segments", SEGMENT_FIELDS), ("supports", SUPPORT_FIELDS),
                        ("load_cases", LOAD_CASE_FIELDS)):
         for i in _indices(form, lp):
@@ -580,6 +670,8 @@ class FieldView:
     options: tuple[tuple[str, str], ...]
     hint: str
     wide: bool = False
+    note: str = ""
+    group: bool = False
 
 
 @dataclass
@@ -609,14 +701,21 @@ class Section:
     extras: list[tuple[str, str]] = field(default_factory=list)
 
 
-def _views(form: FormState, prefix: str, fields: Iterable[Field], system: str) -> list[FieldView]:
+def _placeholder(f: Field, model: Any, system: str) -> str:
+    """What an empty box says: the field's own hint."""
+    return f.hint
+
+
+def _views(form: FormState, prefix: str, fields: Iterable[Field], system: str,
+           model: Any = None) -> list[FieldView]:
     out = []
     for f in fields:
         path = prefix + f.key
         out.append(FieldView(path=path, id="f-" + slug(path), label=f.label,
-                             unit=units.unit_label(f.quantity, system) if f.kind == "number" else "",
+                             unit=_unit(f, system) if f.kind == "number" else "",
                              kind=f.kind, value=form.get(path, ""), required=f.required,
-                             options=f.options, hint=f.hint, wide=path in ("name", "shaft.material.name")))
+                             options=f.options, hint=_placeholder(f, model, system),
+                             wide=path in ("name", "shaft.material.name"), note=f.note, group=f.group))
     return out
 
 
@@ -627,16 +726,16 @@ def _rows(form: FormState, lp: str, system: str) -> list[Row]:
         pre = f"{lp}[{i}]."
         if lp == "elements":
             kind = form.get(pre + "kind", "gear")
-            fields = ELEMENT_FIELDS.get(kind, _COMMON)
+            fields, model = ELEMENT_FIELDS.get(kind, _COMMON), _KIND_MODEL.get(kind)
             title = form.get(pre + "id", "") or f"element {pos + 1}"
         elif lp == "supports":
-            fields, title = SUPPORT_FIELDS, form.get(pre + "id", "") or f"support {pos + 1}"
+            fields, model, title = SUPPORT_FIELDS, Support, form.get(pre + "id", "") or f"support {pos + 1}"
         elif lp == "load_cases":
-            fields, title = LOAD_CASE_FIELDS, form.get(pre + "name", "") or f"case {pos + 1}"
+            fields, model, title = LOAD_CASE_FIELDS, LoadCase, form.get(pre + "name", "") or f"case {pos + 1}"
         else:
-            fields, title = SEGMENT_FIELDS, f"segment {pos + 1}"
+            fields, model, title = SEGMENT_FIELDS, Segment, f"segment {pos + 1}"
         rows.append(Row(list_path=lp, index=i, position=pos, count=len(idx), title=title,
-                        fields=_views(form, pre, fields, system), extra_name=pre + "_extra",
+                        fields=_views(form, pre, fields, system, model), extra_name=pre + "_extra",
                         extra_value=form.get(pre + "_extra", "")))
     return rows
 
@@ -646,10 +745,11 @@ def editor_sections(form: FormState) -> list[Section]:
     system = form.get("units", "si")
     extras = [(k, v) for k, v in form.items() if k in ("_extra", "shaft._extra",
                                                          "shaft.material._extra",
-                                                         "requirements._extra") and v]
+                                                         "requirements._extra",
+                                                         LUB + "_extra") and v]
     return [
         Section("design", "Design", fields=_views(form, "", TOP_FIELDS, system), extras=extras),
-        Section("material", "Shaft material", fields=_views(form, "shaft.material.", MATERIAL_FIELDS, system)),
+        Section("material", "Shaft material", fields=_views(form, "shaft.material.", MATERIAL_FIELDS, system, Material)),
         Section("segments", "Shaft steps, left to right", rows=_rows(form, "shaft.segments", system),
                 list_path="shaft.segments", noun="step"),
         Section("supports", "Supports", rows=_rows(form, "supports", system), list_path="supports",
@@ -658,7 +758,10 @@ def editor_sections(form: FormState) -> list[Section]:
                 list_path="elements", noun="part"),
         Section("load_cases", "Duty cycle", rows=_rows(form, "load_cases", system),
                 list_path="load_cases", noun="load case"),
-        Section("requirements", "Requirements", fields=_views(form, "requirements.", REQUIREMENT_FIELDS, system)),
+        Section("requirements", "Requirements", fields=(
+            _views(form, "requirements.", _REQ_BEARINGS, system, Requirements)
+            + _views(form, LUB, LUBRICANT_FIELDS, system, Lubricant)
+            + _views(form, "requirements.", (_REQ_EC,) + _REQ_SHAFT, system, Requirements))),
     ]
 
 
@@ -792,7 +895,8 @@ def _field_of(path: str, form: Mapping[str, str]) -> Field | None:
                   "elements": ELEMENT_FIELDS.get(form.get(f"elements[{i}].kind", "gear"), _COMMON)}[lp]
     else:
         head, _, key = path.rpartition(".")
-        fields = {"": TOP_FIELDS, "shaft.material": MATERIAL_FIELDS, "requirements": REQUIREMENT_FIELDS}.get(head, ())
+        fields = {"": TOP_FIELDS, "shaft.material": MATERIAL_FIELDS, "requirements": REQUIREMENT_FIELDS,
+                  "requirements.lubricant": LUBRICANT_FIELDS}.get(head, ())
     return next((f for f in fields if f.key == key), None)
 
 
@@ -806,6 +910,8 @@ def _in_words(issue: Issue, form: Mapping[str, str]) -> Issue:
     m = _BOUND.match(issue.message)
     if m and f.kind == "number":
         bound = units.fmt(float(m.group(3)), f.quantity, system, unit=True)
+        if f.quantity in _FIXED_UNITS:
+            bound += "\u202f" + _FIXED_UNITS[f.quantity]
         typed = form.get(issue.path, "").strip()
         return Issue(path=issue.path, message=f"{f.label} must be {m.group(2)} {bound}, got “{typed}”")
     return Issue(path=issue.path, message=_KEYWORD.sub(f.label, issue.message, count=1))

@@ -185,9 +185,9 @@ async def editor_op(request: Request) -> HTMLResponse:
     op = form.pop("op", "")
     if op == "units":
         op = "units:" + form.pop("to_units", "si")
-    if op == "restore":
+    if op == "restore":  # a working copy kept by the browser, perhaps from an older page
         form.pop("to_units", None)
-        focus = None
+        form, focus = web.upgrade_form(form), None
     else:
         form, focus = web.apply_op(form, op)
     ctx = solve_form(form)

@@ -333,3 +333,37 @@ def test_print_opens_the_folds_and_restores_them(page, live_server):
     assert page.locator("#results-detail details.more:not([open])").count() == 0
     page.evaluate("window.dispatchEvent(new Event('afterprint'))")
     assert page.locator("#results-detail details.more:not([open])").count() == n
+
+
+def test_requirements_show_lubricant_contamination_and_defaults(page, live_server, artifacts):
+    _open(page, live_server)
+    sec = page.locator("#sec-requirements")
+    grade = page.locator("[name='requirements.lubricant.iso_vg']")
+    temp = page.locator("[name='requirements.lubricant.operating_temp_C']")
+    assert "[mm²/s at 40 °C]" in page.locator("label[for='f-requirements-lubricant-iso_vg']").inner_text()
+    assert "[°C]" in page.locator("label[for='f-requirements-lubricant-operating_temp_C']").inner_text()
+    assert page.locator("#n-requirements-contamination_ec").is_visible()
+    assert "1\u00a0extreme\u00a0cleanliness" in page.locator("#n-requirements-contamination_ec").inner_text()
+    # every box of the section lies inside the editor column (nothing cut off or overlapping)
+    col = _box(page, ".editor-col")
+    for b in sec.locator("input").evaluate_all("els => els.map(e => e.getBoundingClientRect().toJSON())"):
+        assert col["x"] <= b["x"] and b["x"] + b["width"] <= col["x"] + col["width"] + 1
+    sec.scroll_into_view_if_needed()
+    sec.screenshot(path=str(artifacts / "10-requirements.png"))
+    # a temperature without a grade: the message names the missing box, beside it
+    old = grade.input_value()
+    grade.fill("")
+    msg = page.locator("#m-requirements-lubricant-iso_vg")
+    msg.wait_for(state="visible")
+    assert "ISO VG grade is needed with the operating temperature" in msg.inner_text()
+    assert grade.get_attribute("aria-invalid") == "true"
+    assert page.locator("#status[data-state='stale']").count() == 1
+    # both empty: no aISO, and the design solves again
+    temp.fill("")
+    _wait_fresh(page)
+    assert msg.inner_text() == ""
+    grade.fill(old)
+    temp.fill("60")
+    _wait_fresh(page)
+    # the invalid states were answered with 422, as designed; nothing else went wrong
+    assert [e for e in page.console_errors if "422" not in e] == []
