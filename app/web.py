@@ -547,17 +547,48 @@ def _new_row(form: FormState, list_path: str, j: int, kind: str = "gear") -> For
                **_NEW_ELEMENT_DEFAULTS.get(kind, {})}
         fields = ELEMENT_FIELDS[kind]
     else:
-        n = len(_indices(form, "load_cases"))
-        obj = {"name": f"case {n + 1}", "time_fraction": 0.0 if n else 1.0, "speed_rpm": 1000.0,
-               "torque_factor": 1.0}
-        fields = LOAD_CASE_FIELDS
+        return _new_case(form, j)
     part: FormState = {}
     _put_obj(part, f"{list_path}[{j}].", obj, fields, system)
-    if list_path == "load_cases" and n:
-        part[f"{list_path}[{j}].time_fraction"] = "0"
     form = dict(form)
     form.update(part)
     return form
+
+
+def _new_case(form: FormState, j: int) -> FormState:
+    """Form state with a new load case at row ``j`` that keeps the duty cycle valid.
+
+    The new case splits the case with the largest share of time (the first of equals): it
+    starts as a copy of that case (speed, factors and the keys the form does not show) under
+    a name of its own, and the two take half of that case's share each. The fractions still
+    sum to what they summed to, and the results do not change until the new case is edited.
+    The first case has all the time; with no share that can be read as a number, the new
+    case gets 0 and the duty-cycle message says what to fix.
+    """
+    system = form.get("units", "si")
+    idx = _indices(form, "load_cases")
+    names = {form.get(f"load_cases[{i}].name", "").strip() for i in idx}
+    n = len(idx) + 1
+    while f"case {n}" in names:
+        n += 1
+    shares: dict[int, float] = {}
+    for i in idx:
+        try:
+            shares[i] = parse_number(form.get(f"load_cases[{i}].time_fraction", ""))
+        except ValueError:
+            continue
+    donor = max((i for i in shares if shares[i] > 0), key=shares.__getitem__, default=None)
+    pre, out = f"load_cases[{j}].", dict(form)
+    if donor is None:
+        _put_obj(out, pre, {"name": f"case {n}", "time_fraction": 0.0 if idx else 1.0,
+                            "speed_rpm": 1000.0, "torque_factor": 1.0}, LOAD_CASE_FIELDS, system)
+        return out
+    src = f"load_cases[{donor}]."
+    out.update({pre + k[len(src):]: v for k, v in form.items() if k.startswith(src)})
+    out[pre + "name"] = f"case {n}"
+    half = units.fmt_input(shares[donor] / 2, "ratio", system)
+    out[src + "time_fraction"] = out[pre + "time_fraction"] = half
+    return out
 
 
 def _fill_kind(form: FormState, i: int) -> FormState:

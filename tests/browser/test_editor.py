@@ -367,3 +367,18 @@ def test_requirements_show_lubricant_contamination_and_defaults(page, live_serve
     _wait_fresh(page)
     # the invalid states were answered with 422, as designed; nothing else went wrong
     assert [e for e in page.console_errors if "422" not in e] == []
+
+
+def test_add_load_case_keeps_the_design_solvable(page, live_server, artifacts):
+    _open(page, live_server)
+    n = page.locator("[name$='].speed_rpm'][name^='load_cases']").count()
+    page.locator("#op-add-load_cases").click()
+    page.wait_for_selector(f"#row-load_cases-{n}")
+    _wait_fresh(page)
+    assert page.locator("#m-sec-load_cases").inner_text() == ""
+    shares = [float(page.locator(f"[name='load_cases[{i}].time_fraction']").input_value()) for i in range(n + 1)]
+    assert sum(shares) == pytest.approx(1.0, abs=1e-9)
+    assert page.evaluate("document.activeElement && document.activeElement.name") == f"load_cases[{n}].name"
+    page.wait_for_function("(n) => [...document.querySelectorAll('#view-case option')].length === n", arg=n + 1)
+    page.locator(f"#row-load_cases-{n}").screenshot(path=str(artifacts / "11-new-load-case.png"))
+    assert page.console_errors == []

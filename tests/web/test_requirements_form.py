@@ -1,5 +1,5 @@
 """The Requirements section of the editor: lubricant and contamination boxes (ISO 281's
-modified life).
+modified life), and a load case that is valid the moment it is added.
 
 Engine values are not checked here (that is tests/engine); these tests check the form:
 what the boxes hold, where messages go, and that the design the form gives solves.
@@ -184,3 +184,68 @@ def test_page_shows_the_boxes(client):
     assert 'operating temperature <span class="unit">[°C]</span>' in t
     assert 'contamination factor ec <span class="unit">[–]</span>' in t
     assert 'id="n-requirements-contamination_ec"' in t
+
+
+# --- 2. a new load case keeps the duty cycle valid -------------------------------------------
+
+def _cases(form):
+    return [(form[f"load_cases[{i}].name"], float(form[f"load_cases[{i}].time_fraction"]))
+            for i in web._indices(form, "load_cases")]
+
+
+def test_new_load_case_splits_the_largest_and_the_design_still_solves():
+    d = demo_design()
+    form = web.design_to_form(d)
+    before = _cases(form)
+    big = max(range(len(before)), key=lambda i: before[i][1])
+    f2, focus = web.apply_op(form, "add:load_cases")
+    after = _cases(f2)
+    n = len(before)
+    assert focus == f"load_cases[{n}].name"
+    assert len(after) == n + 1
+    assert after[big][1] == after[n][1] == before[big][1] / 2
+    assert sum(s for _, s in after) == pytest.approx(1.0, abs=1e-9)
+    assert after[n][0] not in {name for name, _ in before}
+    # a copy of the case it splits: speed and factors as that case
+    for k in ("speed_rpm", "torque_factor", "force_factor"):
+        assert f2[f"load_cases[{n}].{k}"] == form[f"load_cases[{big}].{k}"]
+    design, _, issues = web.read_form(f2)
+    assert issues == [] and design is not None
+    r0, r1 = engine.solve(engine.parse_design(d)), engine.solve(design)
+    # splitting a case in two leaves the duty-cycle equivalent load as it was
+    assert [b.equivalent_load_N for b in r1.bearings] == pytest.approx([b.equivalent_load_N for b in r0.bearings], rel=1e-9)
+
+
+def test_new_load_case_copies_hidden_keys_and_takes_the_first_of_equals():
+    d = demo_design()
+    d["load_cases"] = [
+        {"name": "a", "time_fraction": 0.4, "speed_rpm": 500, "torque_alternating_pct": 10},
+        {"name": "b", "time_fraction": 0.4, "speed_rpm": 700},
+        {"name": "c", "time_fraction": 0.2, "speed_rpm": 900}]
+    f2, _ = web.apply_op(web.design_to_form(d), "add:load_cases")
+    assert _cases(f2) == [("a", 0.2), ("b", 0.4), ("c", 0.2), ("case 4", 0.2)]
+    assert f2["load_cases[3].speed_rpm"] == "500"
+    assert json.loads(f2["load_cases[3]._extra"]) == {"torque_alternating_pct": 10}
+    assert web.read_form(f2)[2] == []
+
+
+def test_new_load_case_names_are_unique_and_the_first_case_has_all_the_time():
+    form = web.design_to_form(demo_design())
+    form["load_cases[0].name"] = "case 4"
+    f2, _ = web.apply_op(form, "add:load_cases")
+    assert f2["load_cases[3].name"] == "case 5"
+    for k in [k for k in f2 if k.startswith("load_cases[")]:
+        del f2[k]
+    f3, _ = web.apply_op(f2, "add:load_cases")
+    assert _cases(f3) == [("case 1", 1.0)]
+    # no share that reads as a number: nothing to split, the sum message will say what to fix
+    form["load_cases[0].time_fraction"] = form["load_cases[1].time_fraction"] = "x"
+    form["load_cases[2].time_fraction"] = "0"
+    f4, _ = web.apply_op(form, "add:load_cases")
+    assert f4["load_cases[3].time_fraction"] == "0"
+
+
+def test_add_load_case_through_the_page_stays_solvable(client):
+    r = client.post("/editor/op", data={**web.design_to_form(demo_design()), "op": "add:load_cases"})
+    assert r.status_code == 200
+    assert 'name="load_cases[3].time_fraction"' in r.text
