@@ -733,8 +733,12 @@ class Section:
 
 
 def _placeholder(f: Field, model: Any, system: str) -> str:
-    """What an empty box says: the field's own hint."""
-    return f.hint
+    """What an empty box says: the field's own hint, else, for an optional number that the
+    model fills in when it is left out, "default <value>" in the display unit system."""
+    if f.hint or f.required or f.kind != "number" or f.empty_means != "omit":
+        return f.hint
+    d = _default(model, f.key)
+    return "" if d is None else "default " + units.fmt(float(d), f.quantity, system).replace("\u202f", " ")
 
 
 def _views(form: FormState, prefix: str, fields: Iterable[Field], system: str,

@@ -344,6 +344,7 @@ def test_requirements_show_lubricant_contamination_and_defaults(page, live_serve
     assert "[°C]" in page.locator("label[for='f-requirements-lubricant-operating_temp_C']").inner_text()
     assert page.locator("#n-requirements-contamination_ec").is_visible()
     assert "1\u00a0extreme\u00a0cleanliness" in page.locator("#n-requirements-contamination_ec").inner_text()
+    assert page.locator("[name='requirements.fatigue_safety_min']").get_attribute("placeholder").startswith("default ")
     # every box of the section lies inside the editor column (nothing cut off or overlapping)
     col = _box(page, ".editor-col")
     for b in sec.locator("input").evaluate_all("els => els.map(e => e.getBoundingClientRect().toJSON())"):

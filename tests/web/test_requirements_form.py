@@ -1,5 +1,6 @@
 """The Requirements section of the editor: lubricant and contamination boxes (ISO 281's
-modified life), and a load case that is valid the moment it is added.
+modified life), placeholders that show the model's defaults, and a load case that is valid
+the moment it is added.
 
 Engine values are not checked here (that is tests/engine); these tests check the form:
 what the boxes hold, where messages go, and that the design the form gives solves.
@@ -249,3 +250,35 @@ def test_add_load_case_through_the_page_stays_solvable(client):
     r = client.post("/editor/op", data={**web.design_to_form(demo_design()), "op": "add:load_cases"})
     assert r.status_code == 200
     assert 'name="load_cases[3].time_fraction"' in r.text
+
+
+# --- 3. defaults shown as placeholders ------------------------------------------------------
+
+@pytest.mark.parametrize("system", ["si", "us"])
+def test_optional_requirements_show_the_model_default(system):
+    v = _by_path(web.design_to_form(demo_design(), system))
+    for key in ("fatigue_safety_min", "yield_safety_min", "gear_deflection_max_mm", "gear_slope_max_rad"):
+        f = next(f for f in web.REQUIREMENT_FIELDS if f.key == key)
+        default = Requirements.model_fields[key].default
+        assert v["requirements." + key].value == ""
+        assert v["requirements." + key].hint == "default " + units.fmt(default, f.quantity, system)
+    assert v[LUB + "viscosity_index"].hint == "default " + units.fmt(Lubricant.model_fields["viscosity_index"].default)
+
+
+def test_placeholders_follow_the_model_everywhere():
+    form = web.design_to_form(demo_design())
+    views = {v.path: v for s in web.editor_sections(form) for r in s.rows for v in r.fields}
+    ff = views["load_cases[0].force_factor"]
+    assert ff.hint == "default " + units.fmt(LoadCase.model_fields["force_factor"].default)
+    # a field with its own hint keeps it; a required field has no placeholder
+    assert views["shaft.segments[0].bore_mm"].hint == "empty: solid"
+    assert views["load_cases[0].speed_rpm"].hint == ""
+    # no default in the model (None): no "default" text
+    assert not views["shaft.segments[0].fillet_r_mm"].hint.startswith("default")
+
+
+def test_page_shows_default_placeholders(client):
+    t = client.get("/").text
+    assert 'name="requirements.fatigue_safety_min"' in t
+    assert f'placeholder="default {units.fmt(Requirements.model_fields["fatigue_safety_min"].default)}"' in t
+    assert f'placeholder="default {units.fmt(Requirements.model_fields["gear_slope_max_rad"].default, "slope")}"' in t
