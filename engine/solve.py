@@ -24,7 +24,7 @@ from engine.model import Design, DesignError, EngineError, Issue, parse_design
 from engine.result import (CaseResult, Diagrams, ElementForces, Result,
                            ShaftSummary, SupportReaction)
 
-__all__ = ["solve", "Analysis", "analyse"]
+__all__ = ["solve", "Analysis", "analyse", "carry_axial"]
 
 
 class Analysis:
@@ -60,6 +60,16 @@ def analyse(design: Design) -> Analysis:
     volume = float(np.sum(mesh.A_mm2 * mesh.le_mm))
     Fa_ext = np.array([cl.F_N[:, 0].sum() for cl in loads]) + w[:, 0] * volume
     return Analysis(design, mesh, loads, beam, Fr, Fa_ext, np.empty(0), np.empty(0))
+
+
+def carry_axial(a: Analysis, Fx_N: np.ndarray) -> None:
+    """Set the axial force and torque along the shaft (``a.N_N``, ``a.T_Nmm``) once the axial
+    reactions ``Fx_N`` (n_cases, n_supports) of the supports are known."""
+    Fx_loads = np.hstack([np.array([cl.F_N[:, 0] for cl in a.loads]), Fx_N])
+    x_loads = np.concatenate([a.loads[0].x_mm if a.loads else [], [s.x_mm for s in a.design.supports]])
+    T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx_N)])
+    a.N_N, a.T_Nmm = axial_and_torque(a.mesh, x_loads, Fx_loads, T_loads,
+                                      _weight_density(a.design, a.loads)[:, 0])
 
 
 def _diagrams(a: Analysis) -> Diagrams:
@@ -155,10 +165,7 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
     a = analyse(design)
     rated = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N, catalogue=catalogue)
     Fa, Fx = rated.split.Fa_N, rated.split.Fx_N
-    Fx_loads = np.hstack([np.array([cl.F_N[:, 0] for cl in a.loads]), Fx])
-    x_loads = np.concatenate([a.loads[0].x_mm if a.loads else [], [s.x_mm for s in design.supports]])
-    T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
-    a.N_N, a.T_Nmm = axial_and_torque(a.mesh, x_loads, Fx_loads, T_loads, _weight_density(design, a.loads)[:, 0])
+    carry_axial(a, Fx)
 
     sc = shaft_checks(a)
     u_res = np.hypot(a.beam.u_mm[:, 0], a.beam.u_mm[:, 1])  # (nc, N)

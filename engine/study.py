@@ -975,22 +975,16 @@ def _mirror_result(design: Design, a: Any, held: tuple[Any, list[Any]] | None = 
     shoulder factors when already computed (for all variants at once)."""
     from types import SimpleNamespace
 
-    from engine.beam import axial_and_torque
     from engine.bearings import rate_bearings
     from engine.checks import shaft_checks
-    from engine.solve import _weight_density
+    from engine.solve import carry_axial
 
     if held is None:
         outcome = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N, catalogue=catalogue)
         split, bearings, bchecks = outcome.split, outcome.bearings, list(outcome.checks)
     else:
         (split, bearings), bchecks = held, []
-    Fx = split.Fx_N
-    Fx_loads = np.hstack([np.array([cl.F_N[:, 0] for cl in a.loads]), Fx])
-    x_loads = np.concatenate([a.loads[0].x_mm if a.loads else [], [s.x_mm for s in design.supports]])
-    T_loads = np.hstack([np.array([cl.C_Nmm[:, 0] for cl in a.loads]), np.zeros_like(Fx)])
-    a.N_N, a.T_Nmm = axial_and_torque(a.mesh, x_loads, Fx_loads, T_loads,
-                                      _weight_density(design, a.loads)[:, 0])
+    carry_axial(a, split.Fx_N)
     sc = shaft_checks(a, modes=modes, min_diameter=False, kt_shoulders=kt_shoulders)  # no section sizes shown
     shaft = SimpleNamespace(min_safety_factor=sc.min_safety_factor, critical_speed_rpm=sc.critical_speed_rpm)
     cases = [SimpleNamespace(speed_rpm=c.speed_rpm) for c in design.load_cases]
