@@ -42,12 +42,14 @@ _LBFFT_NM = _LBF_N * 0.3048
 
 @dataclass(frozen=True)
 class Quantity:
-    """One kind of number: its SI unit label, its US label and the factor SI = US · factor."""
+    """One kind of number: its SI unit label, its US label, and SI = (US − offset) · factor
+    (the offset is zero but for temperature: °C = (°F − 32) · 5/9)."""
 
     si: str
     us: str
-    us_factor: float  # value_SI = value_US * us_factor
+    us_factor: float  # value_SI = (value_US - us_offset) * us_factor
     sig: int = 4
+    us_offset: float = 0.0
 
 
 QUANTITIES: dict[str, Quantity] = {
@@ -68,6 +70,7 @@ QUANTITIES: dict[str, Quantity] = {
     "stiffness": Quantity("N/mm", "lbf/in", _LBF_N / _IN_MM),
     "ratio": Quantity("", "", 1.0),
     "count": Quantity("", "", 1.0, 6),
+    "temperature": Quantity("°C", "°F", 5.0 / 9.0, 3, us_offset=32.0),
 }
 
 # engine result "unit" strings -> quantity names (for checks, whose unit comes as text)
@@ -100,14 +103,16 @@ def to_display(value_si: float | None, quantity: str, system: str = "si") -> flo
         return None
     if system != "us":
         return float(value_si)
-    return float(value_si) / _q(quantity).us_factor
+    q = _q(quantity)
+    return float(value_si) / q.us_factor + q.us_offset
 
 
 def from_display(value: float, quantity: str, system: str = "si") -> float:
     """Display value → SI value."""
     if system != "us":
         return float(value)
-    return float(value) * _q(quantity).us_factor
+    q = _q(quantity)
+    return (float(value) - q.us_offset) * q.us_factor
 
 
 def sig(value: float, n: int = 4) -> float:

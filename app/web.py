@@ -188,7 +188,7 @@ LUBRICANT_FIELDS = (
 )
 LUB = "requirements.lubricant."  # form prefix of the lubricant's fields
 # labels of quantities that app.units does not convert (the same in both systems)
-_FIXED_UNITS = {"viscosity": "mm²/s at 40 °C", "temperature": "°C"}
+_FIXED_UNITS = {"viscosity": "mm²/s at 40 °C"}
 
 # list path -> (fields of one row or None for elements, defaults of a new row in SI)
 LISTS: dict[str, str] = {"shaft.segments": "segment", "supports": "support",

@@ -36,7 +36,7 @@ def _by_path(form):
 def test_lubricant_and_ec_have_boxes_and_round_trip(system):
     d = _demo_with_oil(viscosity_index=120)
     form = web.design_to_form(d, system)
-    assert form[LUB + "iso_vg"] == "68" and form[LUB + "operating_temp_C"] == "60"
+    assert form[LUB + "iso_vg"] == "68" and form[LUB + "operating_temp_C"] == {"si": "60", "us": "140"}[system]
     assert form[LUB + "viscosity_index"] == "120" and form["requirements.contamination_ec"] == "0.5"
     # the hidden carrier no longer holds them twice
     extra = json.loads(form.get("requirements._extra", "{}"))
@@ -50,11 +50,11 @@ def test_lubricant_and_ec_have_boxes_and_round_trip(system):
 
 
 def test_lubricant_boxes_are_labelled_with_units_in_both_systems():
-    for system in ("si", "us"):
+    for system, deg in (("si", "°C"), ("us", "°F")):
         v = _by_path(web.design_to_form(_demo_with_oil(), system))
         assert (v[LUB + "iso_vg"].label, v[LUB + "iso_vg"].unit) == ("ISO VG grade", "mm²/s at 40 °C")
-        # app.units has no temperature quantity: °C in the US system too
-        assert (v[LUB + "operating_temp_C"].label, v[LUB + "operating_temp_C"].unit) == ("operating temperature", "°C")
+        # temperature converts with its offset: °F = °C · 9/5 + 32 (NIST SP 811, B.8)
+        assert (v[LUB + "operating_temp_C"].label, v[LUB + "operating_temp_C"].unit) == ("operating temperature", deg)
         assert (v[LUB + "viscosity_index"].label, v[LUB + "viscosity_index"].unit) == ("viscosity index", "")
         ec = v["requirements.contamination_ec"]
         assert (ec.label, ec.unit) == ("contamination factor ec", "")
@@ -174,8 +174,9 @@ def test_unit_switch_keeps_the_lubricant():
     form = web.design_to_form(_demo_with_oil())
     us, _ = web.apply_op(form, "units:us")
     si, _ = web.apply_op(us, "units:si")
-    for k in ("iso_vg", "operating_temp_C"):
-        assert us[LUB + k] == si[LUB + k] == form[LUB + k]
+    assert us[LUB + "iso_vg"] == si[LUB + "iso_vg"] == form[LUB + "iso_vg"]  # no unit to switch
+    # the temperature is shown in °F in US units and comes back to the same °C
+    assert (form[LUB + "operating_temp_C"], us[LUB + "operating_temp_C"], si[LUB + "operating_temp_C"]) == ("60", "140", "60")
 
 
 def test_page_shows_the_boxes(client):

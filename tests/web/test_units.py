@@ -51,3 +51,13 @@ def test_input_text_parses_back():
     for v in (47.0, 0.0005, 7850.0, -95.0):
         t = units.fmt_input(v, "length", "si")
         assert float(t) == v
+
+
+def test_temperature_converts_with_its_offset():
+    # °F = °C · 9/5 + 32 (NIST SP 811, Appendix B.8); −40 is the same on both scales
+    from app import units
+
+    assert units.to_display(100.0, "temperature", "us") == pytest.approx(212.0)
+    assert units.to_display(-40.0, "temperature", "us") == pytest.approx(-40.0)
+    assert units.from_display(212.0, "temperature", "us") == pytest.approx(100.0)
+    assert units.unit_label("temperature", "us") == "°F" and units.unit_label("temperature", "si") == "°C"
