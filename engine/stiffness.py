@@ -129,24 +129,20 @@ def gear_checks(design: Design, *, u_mm: np.ndarray, slope_rad: np.ndarray,
     out: list[Check] = []
     for k, i in enumerate(idx):
         e = design.elements[i]
-        j = int(np.argmax(u[:, k]))
-        v = float(u[j, k])
-        ok = v <= req.gear_deflection_max_mm
-        out.append(Check(code="shaft.gear_deflection", status="ok" if ok else "fail",
-                         message=f"deflection {v:.3g} mm at gear {e.id} "
-                                 f"{'is within' if ok else 'exceeds'} {req.gear_deflection_max_mm:g} mm",
-                         value=v, limit=req.gear_deflection_max_mm, unit="mm", source=dsrc,
-                         where=e.id, load_case=design.load_cases[j].name))
-        j = int(np.argmax(th[:, k]))
-        v = float(th[j, k])
-        ok = v <= req.gear_slope_max_rad
-        out.append(Check(code="shaft.gear_slope", status="ok" if ok else "fail",
-                         message=f"slope {v:.3g} rad at gear {e.id} "
-                                 f"{'is within' if ok else 'exceeds'} {req.gear_slope_max_rad:g} rad",
-                         value=v, limit=req.gear_slope_max_rad, unit="rad", source=ssrc,
-                         where=e.id, load_case=design.load_cases[j].name))
+        for code, word, arr, limit, unit, src in (
+                ("shaft.gear_deflection", "deflection", u, req.gear_deflection_max_mm, "mm", dsrc),
+                ("shaft.gear_slope", "slope", th, req.gear_slope_max_rad, "rad", ssrc)):
+            j = int(np.argmax(arr[:, k]))
+            v = float(arr[j, k])
+            ok = v <= limit
+            out.append(Check(code=code, status="ok" if ok else "fail",
+                             message=f"{word} {v:.3g} {unit} at gear {e.id} "
+                                     f"{'is within' if ok else 'exceeds'} {limit:g} {unit}",
+                             value=v, limit=limit, unit=unit, source=src,
+                             where=e.id, load_case=design.load_cases[j].name))
         mate = getattr(e, "mate_slope_rad", None)
         if mate is not None:
+            j = int(np.argmax(th[:, k]))  # the case of the largest slope at this gear
             v = float(th[j, k] + abs(mate))
             ok = v <= req.gear_slope_max_rad
             out.append(Check(code="shaft.mesh_slope", status="ok" if ok else "fail",
