@@ -97,6 +97,20 @@ def _clean(v: Any) -> Any:
 
 # --- JSON API ---------------------------------------------------------------------------------
 
+async def _answer(request: Request, work, what: str) -> JSONResponse:
+    """Read the JSON body, run ``work(body)``; bad input is 422 with its paths, an engine fault
+    is logged and answered 500 in words, so the server stays up."""
+    try:
+        res = await work(await _json_body(request))
+    except DesignError as exc:
+        return _errors(exc)
+    except Exception as exc:
+        log.exception("%s failed", what)
+        return JSONResponse(status_code=500, content={"errors": [{"path": "", "message":
+                            f"the engine could not {what} ({type(exc).__name__}: {exc})"}]})
+    return JSONResponse(_clean(res.model_dump(mode="json")))
+
+
 _STUDY_EXAMPLE = {"design": {"...": "a design document, format shaft-design/1"},
                   "vary": ["supports.B.x_mm=200:270:15"]}
 
@@ -109,20 +123,13 @@ _STUDY_EXAMPLE = {"design": {"...": "a design document, format shaft-design/1"},
 async def api_study(request: Request) -> JSONResponse:
     """Solve every variant: per variant the bearing lives, the governing shaft safety factor,
     the largest slope at a bearing and the first critical speed."""
-    try:
-        body = await _json_body(request)
+    async def work(body):
         if not isinstance(body, dict) or "vary" not in body:
             raise DesignError([Issue(path="vary", message="give 'design' and 'vary' (one or two "
                                                           "variables, e.g. \"supports.B.x_mm=300:500:21\")")])
-        design = _guard(_design_of(body))
-        res = await run_in_threadpool(run_study, design, body["vary"])
-    except DesignError as exc:
-        return _errors(exc)
-    except Exception as exc:  # an engine fault: say so, keep the server up
-        log.exception("study failed")
-        return JSONResponse(status_code=500, content={"errors": [{"path": "", "message":
-                            f"the engine could not run this study ({type(exc).__name__}: {exc})"}]})
-    return JSONResponse(_clean(res.model_dump(mode="json")))
+        return await run_in_threadpool(run_study, _guard(_design_of(body)), body["vary"])
+
+    return await _answer(request, work, "run this study")
 
 
 @router.post("/api/arrangements", tags=["api"], summary="Compare bearing arrangements",
@@ -131,17 +138,10 @@ async def api_study(request: Request) -> JSONResponse:
 async def api_arrangements(request: Request) -> JSONResponse:
     """Every sensible bearing-type and axial-arrangement combination of the outermost
     supports, each with its best candidates, lives, static safety, slopes and space, ranked."""
-    try:
-        body = await _json_body(request)
-        design = _guard(_design_of(body))
-        res = await run_in_threadpool(compare_arrangements, design)
-    except DesignError as exc:
-        return _errors(exc)
-    except Exception as exc:  # an engine fault: say so, keep the server up
-        log.exception("arrangement comparison failed")
-        return JSONResponse(status_code=500, content={"errors": [{"path": "", "message":
-                            f"the engine could not compare arrangements ({type(exc).__name__}: {exc})"}]})
-    return JSONResponse(_clean(res.model_dump(mode="json")))
+    async def work(body):
+        return await run_in_threadpool(compare_arrangements, _guard(_design_of(body)))
+
+    return await _answer(request, work, "compare arrangements")
 
 
 # --- page -------------------------------------------------------------------------------------
