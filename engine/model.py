@@ -433,12 +433,17 @@ def _semantic(d: Design) -> list[Issue]:
     elif not bad:
         from engine.loads import torque_imbalance  # local: loads imports this module
 
-        checks = [("elements", "the design", LoadCase(name="given", speed_rpm=1.0))]
-        # a case that sets torques, or scales element torques and force-arm torques by
-        # different factors, can be out of balance even when the design is not
+        # the design's own torques first, reported at the first torque the user wrote; a case
+        # that only scales them (torque_factor) repeats that mistake, so it is checked only
+        # when the design balances; a case that sets its own torques is always checked
+        given = [i for i, e in enumerate(d.elements) if e.kind in TORQUE_KINDS and e.torque_Nm is not None]
+        design_at = f"elements[{given[0]}].torque_Nm" if given else "elements"
+        checks = [(design_at, "the design", LoadCase(name="given", speed_rpm=1.0))]
         checks += [(f"load_cases[{j}].{'torques_Nm' if c.torques_Nm else 'torque_factor'}", f"load case '{c.name}'", c)
                    for j, c in enumerate(d.load_cases) if c.torques_Nm or c.torque_factor != c.force_factor]
         for where, what, case in checks:
+            if bad and not case.torques_Nm:
+                continue  # the design's imbalance, scaled: already reported once
             imb, largest = torque_imbalance(d, case)
             if imb is not None and largest > 0 and abs(imb) > TORQUE_TOLERANCE * largest:
                 add(where, f"in {what} the element torques do not balance: they sum to {imb:+.4g} N·m "

@@ -53,9 +53,13 @@ def test_fewer_than_two_supports(countershaft):
     assert "at least two supports" in problems(countershaft)["supports"]
 
 
-def test_torque_imbalance_is_named_in_newton_metres(countershaft):
+def test_torque_imbalance_is_named_in_newton_metres_once_at_the_torque_written(countershaft):
+    """The demo's three cases scale the torques (torque_factor 1, 0.5, 1.6): one wrong torque
+    is one mistake, reported once, at the torque the user wrote, not at the factors."""
     countershaft["elements"][0]["torque_Nm"] = 90.0  # G1 is −95
-    msg = problems(countershaft)["elements"]
+    got = problems(countershaft)
+    assert list(got) == ["elements[0].torque_Nm"]
+    msg = got["elements[0].torque_Nm"]
     assert "-5 N·m" in msg and "largest 95 N·m" in msg
 
 
