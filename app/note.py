@@ -256,16 +256,28 @@ _DIAGRAMS = (
 )
 
 
+# quantities drawn against one scale: a plane whose moment is round-off next to the other
+# plane's draws as zero (app.svgchart.RESOLUTION)
+_SCALE_GROUPS = (("M_Nm", "Mz_Nm", "My_Nm"), ("Vy_N", "Vz_N"))
+
+
 def _charts(result: Result) -> list[Markup]:
     x = result.diagrams.x_mm
     charts = []
+
+    def largest(keys: tuple[str, ...]) -> float:
+        return max((abs(v) for q in result.diagrams.load_cases.values() for k in keys
+                    for v in q.get(k, []) if v is not None and v == v and abs(v) != float("inf")),
+                   default=0.0)
+
     for key, title, ylab in _DIAGRAMS:
         series = [(name, q[key]) for name, q in result.diagrams.load_cases.items() if key in q]
         if not series:
             continue
         if key == "N_N" and all(abs(v) < 1e-9 for _, ys in series for v in ys):
             continue  # no axial force anywhere: nothing to draw
-        charts.append(line_chart(x, series, title=title, y_label=ylab))
+        group = next((g for g in _SCALE_GROUPS if key in g), (key,))
+        charts.append(line_chart(x, series, title=title, y_label=ylab, scale=largest(group)))
     return charts
 
 

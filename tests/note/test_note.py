@@ -152,3 +152,31 @@ def test_requirements_the_form_does_not_show_print_in_words(design):
     assert _extra_row("lubricant", {"iso_vg": 68, "operating_temp_C": 60}) == ("lubricant", "ISO VG 68 at 60 °C", "")
     assert _extra_row("contamination_ec", 0.5) == ("contamination factor ec", "0.5", "")
     assert _extra_row("fatigue_criterion", "de_goodman")[1] == "DE–Goodman"
+
+
+def test_a_round_off_series_draws_as_zero_not_as_a_zero_span():
+    """The line shaft's x–z moment is pure round-off (about 1e-14 N·m next to hundreds of N·m
+    in the other plane): the chart shows a flat zero line on a ±1 axis, and never divides by
+    a zero tick span (it once raised ZeroDivisionError)."""
+    import re
+
+    from app.svgchart import line_chart, nice_ticks
+
+    for lo, hi in ((0, 3e-14), (-1e-14, 1e-14), (-2e-300, 0), (5.0, 5.0)):
+        t = nice_ticks(lo, hi)
+        assert len(set(t)) == len(t) > 1 and t[0] <= lo and t[-1] >= hi
+    svg = line_chart([0, 600, 1200], [("running", [0.0, 1.3e-14, -2.2e-14])],
+                     title="Bending moment in the x–z plane", y_label="My [N·m]", scale=450.0)
+    ticks = re.findall(r'text-anchor="end">([^<]+)<', svg)
+    assert ticks[0] == "-1" and ticks[-1] == "1"
+    ys = {p.split(",")[1] for p in re.search(r'points="([^"]+)"', svg).group(1).split()}
+    assert len(ys) == 1  # one flat line
+
+
+def test_line_shaft_note_renders():
+    from app.note import render_note_html
+
+    from tests.conftest import load_sample
+
+    html = render_note_html(load_sample("line_shaft.json"))
+    assert "Bending moment in the x–z plane" in html
