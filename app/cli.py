@@ -1,35 +1,40 @@
-"""The ``shaftwright`` command: solve, serve, note, study."""
+"""The ``shaftwright`` command: solve, serve, note, study, schema.
+
+Every subcommand reads files and reports mistakes through :mod:`app.cli_io`: one line
+``shaftwright: FILE: message`` per problem; exit status 2 for bad input, 3 for a missing
+tool, 1 when the work itself fails; never a traceback (``SHAFTWRIGHT_DEBUG=1`` shows one).
+"""
 from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from pathlib import Path
+
+from app.cli_io import InputError, design_error_lines, read_design_file, read_text_file, report
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMO = ROOT / "sample_data" / "countershaft.json"
 
 
-def _load(path: str) -> dict:
-    try:
-        return json.loads(Path(path).read_text(encoding="utf-8"))
-    except (OSError, json.JSONDecodeError) as exc:
-        sys.exit(f"shaftwright: cannot read {path}: {exc}")
-
-
 def cmd_solve(args: argparse.Namespace) -> int:
     import engine
     from app.report import text_report
+    from engine.bearings.catalogue import parse_catalogue
 
-    from engine.bearings import load_catalogue
-
+    document = read_design_file(args.design)
+    table = None
+    if args.bearings:
+        text = read_text_file(args.bearings, what="bearing table")
+        try:
+            table = parse_catalogue(text, name=Path(args.bearings).name)
+        except engine.DesignError as exc:
+            raise InputError(args.bearings, *design_error_lines(exc.errors)) from None
     try:
-        table = load_catalogue(args.bearings) if args.bearings else None
-        result = engine.solve(_load(args.design), catalogue=table)
+        result = engine.solve(document, catalogue=table)
     except engine.DesignError as exc:
-        for e in exc.errors:
-            print(f"error: {e.path or '(design)'}: {e.message}", file=sys.stderr)
-        return 2
+        raise InputError(args.design, *design_error_lines(exc.errors)) from None
     print(result.model_dump_json(indent=1) if args.json else text_report(result))
     return 0
 
@@ -47,34 +52,79 @@ def cmd_note(args: argparse.Namespace) -> int:
     return note(args)
 
 
-def main(argv: list[str] | None = None) -> int:
-    from app.server import limit_blas_threads
+def cmd_schema(args: argparse.Namespace) -> int:
+    from app.schema import design_schema, result_schema
 
-    limit_blas_threads()  # before numpy loads: small systems, one BLAS thread is fastest
-    parser = argparse.ArgumentParser(prog="shaftwright", description=__doc__)
-    sub = parser.add_subparsers(dest="command", required=True)
-    p = sub.add_parser("solve", help="solve a design file and print tables (or --json)")
-    p.add_argument("design")
-    p.add_argument("--json", action="store_true", help="print the result document")
+    print(json.dumps(result_schema() if args.result else design_schema(), indent=1, ensure_ascii=False))
+    return 0
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of every subcommand (``--help`` explains each option)."""
+    parser = argparse.ArgumentParser(
+        prog="shaftwright", description=__doc__.split("\n\n")[0],
+        epilog="Exit status: 0 done, 1 the work failed, 2 bad input (file, design or option), "
+               "3 a needed tool is missing. Results inform design; they do not certify it.")
+    sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
+    p = sub.add_parser("solve", help="solve a design file and print tables (or --json)",
+                       description="Solve a design file (shaft-design/1) and print its reactions, "
+                                   "bearings and checks as tables.")
+    p.add_argument("design", metavar="DESIGN.json", help="design file (JSON, format shaft-design/1)")
+    p.add_argument("--json", action="store_true", help="print the result document (shaft-result/1) instead")
     p.add_argument("--bearings", metavar="TABLE.csv",
                    help="your own bearing table (same columns as sample_data/bearings.csv)")
     p.set_defaults(func=cmd_solve)
-    p = sub.add_parser("serve", help="run the web app (opens on the demo design)")
-    p.add_argument("--host", default="127.0.0.1")
-    p.add_argument("--port", type=int, default=8000)
+    p = sub.add_parser("serve", help="run the web app (opens on the demo design)",
+                       description="Run the web app; open the address it prints in a browser.")
+    p.add_argument("--host", default="127.0.0.1", metavar="ADDRESS",
+                   help="address to listen on (default 127.0.0.1, this machine only; "
+                        "0.0.0.0 serves every network the machine is on)")
+    p.add_argument("--port", type=int, default=int(os.environ.get("SHAFTWRIGHT_PORT") or 8000),
+                   metavar="N", help="TCP port to listen on (default 8000, or SHAFTWRIGHT_PORT)")
     p.set_defaults(func=cmd_serve)
-    p = sub.add_parser("note", help="print a design's note to PDF through headless Chromium")
-    p.add_argument("design")
-    p.add_argument("-o", "--output", default="note.pdf")
+    p = sub.add_parser("note", help="print a design's note to PDF through headless Chromium",
+                       description="Print a design file's design note to PDF (A4) through headless "
+                                   "Chromium (SHAFTWRIGHT_CHROMIUM names the program; default "
+                                   "/usr/bin/chromium).")
+    p.add_argument("design", metavar="DESIGN.json", help="design file (JSON, format shaft-design/1)")
+    p.add_argument("-o", "--output", default="note.pdf", metavar="NOTE.pdf",
+                   help="where to write the PDF (default note.pdf)")
     p.set_defaults(func=cmd_note)
-    p = sub.add_parser("study", help="vary one or two design variables, or compare arrangements")
+    p = sub.add_parser("study", help="vary one or two design variables, or compare arrangements",
+                       description="Vary one or two design variables over a range, or compare "
+                                   "every sensible bearing arrangement.")
     from app.study_cli import add_arguments as _study_args, cmd_study
 
     _study_args(p)
     p.set_defaults(func=cmd_study)
-    args = parser.parse_args(argv)
-    return args.func(args)
+    p = sub.add_parser("schema", help="print the JSON Schema of the design file (or --result)",
+                       description="Print the JSON Schema (draft 2020-12) of the design document "
+                                   "(shaft-design/1), generated from the models the engine reads; "
+                                   "--result prints the result document's (shaft-result/1).")
+    p.add_argument("--result", action="store_true", help="the result document's schema instead")
+    p.set_defaults(func=cmd_schema)
+    return parser
 
+
+def main(argv: list[str] | None = None) -> int:
+    from app.server import limit_blas_threads
+
+    limit_blas_threads()  # before numpy loads: small systems, one BLAS thread is fastest
+    args = build_parser().parse_args(argv)
+    try:
+        return args.func(args)
+    except KeyboardInterrupt:
+        print("shaftwright: interrupted", file=sys.stderr)
+        return 130
+    except Exception as exc:  # noqa: BLE001 - no traceback ever reaches the user
+        from engine.model import DesignError
+
+        if os.environ.get("SHAFTWRIGHT_DEBUG"):
+            raise
+        if not isinstance(exc, (InputError, DesignError, RuntimeError, OSError)):
+            exc = RuntimeError(f"unexpected error ({type(exc).__name__}: {exc}); please report it "
+                               "(SHAFTWRIGHT_DEBUG=1 shows where it happened)")
+        return report(exc, file=getattr(args, "design", ""))
 
 if __name__ == "__main__":
     raise SystemExit(main())

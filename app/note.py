@@ -345,23 +345,82 @@ def _local_url(url: str) -> str:
     raise ValueError(f"only a note on this machine can be printed (localhost or a file), not {url!r}")
 
 
+class _Progress:
+    """A progress bar on stderr for the note's steps (only when stderr is a terminal).
+
+    The steps are few and the browser's is the long one, so the bar shows the step's name and
+    the time so far, refreshed while the browser works."""
+
+    STEPS = 3  # solve, render, print
+
+    def __init__(self, *, enabled: bool | None = None):
+        self.enabled = sys.stderr.isatty() if enabled is None else enabled
+        self._bar = None
+
+    def __enter__(self) -> "_Progress":
+        if self.enabled:
+            from tqdm import tqdm
+
+            self._bar = tqdm(total=self.STEPS, file=sys.stderr, leave=False, dynamic_ncols=True,
+                             bar_format="{desc} |{bar}| {n}/{total} [{elapsed}]")
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        if self._bar is not None:
+            self._bar.close()
+            self._bar = None
+
+    def step(self, what: str) -> None:
+        if self._bar is not None:
+            if self._bar.desc:
+                self._bar.update(1)
+            self._bar.set_description_str(what)
+
+    def tick(self) -> None:
+        if self._bar is not None:
+            self._bar.refresh()
+
+
+def browser_path(chromium: str | None = None) -> str:
+    """The headless browser to print with: ``SHAFTWRIGHT_CHROMIUM`` (default
+    ``/usr/bin/chromium``), else ``chromium`` or ``chromium-browser`` on the PATH. Raises
+    :class:`app.cli_io.ToolMissing`, saying how to get one, when there is none."""
+    import shutil
+
+    from app.cli_io import ToolMissing
+
+    chromium = chromium or get_settings().chromium
+    for name in (chromium, "chromium", "chromium-browser"):
+        found = shutil.which(name)
+        if found:
+            return found
+    raise ToolMissing(f"printing the note needs Chromium, and there is none at {chromium}: install it "
+                      "(Debian/Ubuntu: apt-get install chromium, as root) or set SHAFTWRIGHT_CHROMIUM "
+                      "to the path of a Chromium or Chrome program")
+
+
 def print_pdf(design_or_url: dict | Design | str, out_path: str | Path, *,
               meta: NoteMeta | None = None, chromium: str | None = None,
-              timeout_s: float = 120.0) -> Path:
+              timeout_s: float = 120.0, progress: _Progress | None = None) -> Path:
     """Print the design note to PDF (A4) with headless Chromium; return the PDF's path.
 
     ``design_or_url`` is a design document (rendered here, no server needed) or the URL of a
     note served on this machine (``http://127.0.0.1:…/d/{id}/r/{n}/note``). Raises
+    :class:`app.cli_io.ToolMissing` when there is no browser (a ``RuntimeError``), and
     ``RuntimeError`` when Chromium fails or writes no PDF.
     """
+    import time
+
+    progress = progress or _Progress(enabled=False)
+    chromium = browser_path(chromium)
     out = Path(out_path).expanduser().resolve()
     out.parent.mkdir(parents=True, exist_ok=True)
-    chromium = chromium or get_settings().chromium
     with tempfile.TemporaryDirectory(prefix="shaftwright-note-") as tmp:
         tmpdir = Path(tmp)
         if isinstance(design_or_url, str):
             url = _local_url(design_or_url)
         else:
+            progress.step("drawing the note")
             doc = (design_or_url.model_dump(mode="json") if isinstance(design_or_url, Design)
                    else design_or_url)
             page = tmpdir / "note.html"
@@ -369,43 +428,48 @@ def print_pdf(design_or_url: dict | Design | str, out_path: str | Path, *,
             url = page.as_uri()
         if out.exists():
             out.unlink()
+        progress.step("printing with Chromium")
         cmd = chromium_command(url, out, chromium=chromium, profile_dir=tmpdir / "profile")
-        try:
-            proc = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout_s)
-        except FileNotFoundError:
-            raise RuntimeError(f"cannot print: no browser at {chromium} (set SHAFTWRIGHT_CHROMIUM)") from None
-        except subprocess.TimeoutExpired:
-            raise RuntimeError(f"cannot print: the browser took longer than {timeout_s:g} s") from None
+        with tempfile.TemporaryFile(mode="w+", encoding="utf-8", errors="replace") as err:
+            try:
+                proc = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=err, text=True)
+            except OSError as exc:
+                raise RuntimeError(f"cannot start the browser {chromium}: {exc.strerror or exc}") from None
+            deadline = time.monotonic() + timeout_s
+            while proc.poll() is None:
+                if time.monotonic() > deadline:
+                    proc.kill()
+                    proc.wait()
+                    raise RuntimeError(f"cannot print: the browser took longer than {timeout_s:g} s")
+                progress.tick()
+                time.sleep(0.2)
+            err.seek(0)
+            stderr = err.read()
     if not out.exists() or out.read_bytes()[:5] != b"%PDF-":
-        tail = (proc.stderr or "").strip().splitlines()[-3:]
+        tail = stderr.strip().splitlines()[-3:]
         raise RuntimeError("the browser wrote no PDF (exit code "
                            f"{proc.returncode}): " + " | ".join(tail))
     return out
 
 
 def cmd_note(args: argparse.Namespace) -> int:
-    """``shaftwright note DESIGN.json -o note.pdf``: print a design file's note to PDF."""
+    """``shaftwright note DESIGN.json -o note.pdf``: print a design file's note to PDF.
+
+    Bad input raises :class:`app.cli_io.InputError`, a missing browser
+    :class:`app.cli_io.ToolMissing`; ``shaftwright`` reports both in its one style."""
+    from app.cli_io import InputError, design_error_lines, read_design_file
+
     path = Path(args.design)
     output = getattr(args, "output", None) or path.with_suffix(".pdf")
-    try:
-        document = parse_json(path.read_bytes())
-    except OSError as exc:
-        print(f"shaftwright: cannot read {path}: {exc}", file=sys.stderr)
-        return 2
-    except LimitError as exc:
-        print(f"error: {path}: {exc}", file=sys.stderr)
-        return 2
-    design, result, errors = solve_or_errors(document)
-    if errors:
-        for e in errors:
-            print(f"error: {e.path or '(design)'}: {e.message}", file=sys.stderr)
-        return 2
-    meta = NoteMeta(source=path.name, engine_version=engine.__version__)
-    try:
-        out = print_pdf(document, output, meta=meta)
-    except RuntimeError as exc:
-        print(f"shaftwright: {exc}", file=sys.stderr)
-        return 1
+    progress = _Progress(enabled=getattr(args, "progress", None))
+    with progress:
+        progress.step("reading and solving the design")
+        document = read_design_file(path)
+        design, result, errors = solve_or_errors(document)
+        if errors:
+            raise InputError(path, *design_error_lines(errors))
+        meta = NoteMeta(source=path.name, engine_version=engine.__version__)
+        out = print_pdf(document, output, meta=meta, progress=progress)
     print(f"wrote {out}")
     return 0
 

@@ -6,16 +6,15 @@
 Prints a table (or CSV with ``--csv``) with one row per variant: the values, the life of each
 bearing [h], the governing shaft safety factor, the largest slope at a bearing [mrad], the
 first critical speed [rpm] and whether the variant meets every requirement. Exit status 2 on
-bad input, with each message naming the field (``supports.B.x_mm: ...``).
+bad input, one line per problem naming the file and the field
+(``shaftwright: shaft.json: supports.B.x_mm: ...``; see :mod:`app.cli_io`).
 """
 from __future__ import annotations
 
 import argparse
 import csv
 import io
-import json
 import sys
-from pathlib import Path
 from typing import Any
 
 __all__ = ["cmd_study", "add_arguments", "study_rows", "arrangement_rows", "format_table"]
@@ -111,32 +110,24 @@ def _csv(head: list[str], rows: list[list[Any]]) -> str:
 
 def cmd_study(args: argparse.Namespace) -> int:
     """Run the study (or the comparison) and print it; 0 on success, 2 on bad input."""
+    from app.cli_io import InputError, design_error_lines, read_design_file
     from engine.model import DesignError
     from engine.study import compare_arrangements, run_study
 
-    try:
-        data = json.loads(Path(args.design).read_text(encoding="utf-8"))
-    except (OSError, json.JSONDecodeError, UnicodeDecodeError) as exc:
-        print(f"error: cannot read {args.design}: {exc}", file=sys.stderr)
-        return 2
+    if args.arrangements and args.vary:
+        raise InputError("", "--arrangements compares arrangements; leave out --vary")
+    if not args.arrangements and not args.vary:
+        raise InputError("", "give --vary PATH=START:STOP:COUNT (once or twice), or --arrangements")
+    data = read_design_file(args.design)
     try:
         if args.arrangements:
-            if args.vary:
-                print("error: vary: --arrangements compares arrangements; leave out --vary", file=sys.stderr)
-                return 2
             res = compare_arrangements(data)
             head, rows = arrangement_rows(res)
         else:
-            if not args.vary:
-                print("error: vary: give --vary PATH=START:STOP:COUNT (once or twice), "
-                      "or --arrangements", file=sys.stderr)
-                return 2
             res = run_study(data, args.vary)
             head, rows = study_rows(res)
     except DesignError as exc:
-        for e in exc.errors:
-            print(f"error: {e.path or '(design)'}: {e.message}", file=sys.stderr)
-        return 2
+        raise InputError(args.design, *design_error_lines(exc.errors)) from None
     if args.csv:
         sys.stdout.write(_csv(head, rows))
     else:

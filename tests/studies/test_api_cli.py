@@ -106,9 +106,9 @@ def test_cli_table_and_csv(capsys):
 
 
 @pytest.mark.parametrize("argv, words", [
-    (["--vary", "supports.B.x_mm=200:900:4"], "error: supports.B.x_mm: the values reach 900 mm"),
-    (["--vary", "supports.Q.x_mm=1:2:3"], "error: supports.Q.x_mm: no support has the id 'Q'"),
-    ([], "error: vary:"),
+    (["--vary", "supports.B.x_mm=200:900:4"], f"shaftwright: {DEMO}: supports.B.x_mm: the values reach 900 mm"),
+    (["--vary", "supports.Q.x_mm=1:2:3"], f"shaftwright: {DEMO}: supports.Q.x_mm: no support has the id 'Q'"),
+    ([], "shaftwright: give --vary PATH=START:STOP:COUNT"),
 ])
 def test_cli_bad_input_exits_2_naming_the_field(capsys, argv, words):
     assert main(["study", DEMO] + argv) == 2
