@@ -8,6 +8,7 @@ from fastapi.staticfiles import StaticFiles
 
 import engine
 from app.routers import api, designs, pages, studies
+from app.schema import install_openapi
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -20,4 +21,5 @@ def create_app() -> FastAPI:
     app.mount("/static", StaticFiles(directory=ROOT / "static"), name="static")
     for module in (pages, api, designs, studies):
         app.include_router(module.router)
+    install_openapi(app)  # the API's bodies described by the engine's models (app/schema.py)
     return app

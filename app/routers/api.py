@@ -18,6 +18,7 @@ from fastapi.responses import HTMLResponse, JSONResponse
 
 import engine
 from app.limits import LimitError, read_json
+from app.schema import body_model, schemas_html
 
 __all__ = ["router", "solve_document"]
 
@@ -85,7 +86,9 @@ _DOCS_CSS = """body{font:14px/1.5 ui-sans-serif,system-ui,sans-serif;color:#2734
 main{max-width:960px;margin:0 auto;padding:16px 24px}h1{font-size:20px}h2{font-size:15px;margin:22px 0 6px;border-bottom:1px solid #d9d3c2}
 .op{background:#fffdf7;border:1px solid #d9d3c2;padding:8px 12px;margin:8px 0}.m{font:600 12px ui-monospace,monospace;padding:1px 6px;
 border-radius:2px;background:#1f5d63;color:#fff}.m.get{background:#2d6a3e}code,pre{font:12px ui-monospace,monospace}pre{background:#fbfaf5;
-border:1px solid #ebe6d7;padding:6px;overflow:auto;max-height:320px}.caution{background:#f3ead1;padding:6px 10px;font-size:12.5px}"""
+border:1px solid #ebe6d7;padding:6px;overflow:auto;max-height:320px}
+table{border-collapse:collapse;font-size:12.5px;margin:4px 0 12px}td,th{border:1px solid #ebe6d7;padding:2px 6px;text-align:left;vertical-align:top}
+h3{font-size:14px;margin:16px 0 4px}.caution{background:#f3ead1;padding:6px 10px;font-size:12.5px}"""
 
 
 @router.get("/docs", include_in_schema=False, response_class=HTMLResponse)
@@ -110,14 +113,21 @@ def api_docs(request: Request) -> HTMLResponse:
                          f"<code>{escape(path)}</code> — {escape(op.get('summary', ''))}")
             if op.get("description"):
                 parts.append(f"<p>{escape(op['description'])}</p>")
-            ex = (op.get("requestBody", {}).get("content", {}).get("application/json", {}).get("example"))
+            body = op.get("requestBody", {}).get("content", {}).get("application/json", {})
+            if body_model(body.get("schema")):
+                parts.append("<p>Request body: " + " or ".join(
+                    f"<a href='#schema-{escape(m)}'>{escape(m)}</a>" for m in body_model(body.get("schema"))) + "</p>")
+            ex = body.get("example")
             if ex is not None:
                 parts.append("<p>Example request body:</p><pre>" + escape(json.dumps(ex, indent=1)) + "</pre>")
             for code, resp in op.get("responses", {}).items():
-                parts.append(f"<p><b>{escape(code)}</b> {escape(resp.get('description', ''))}</p>")
+                models = body_model(resp.get("content", {}).get("application/json", {}).get("schema"))
+                parts.append(f"<p><b>{escape(code)}</b> {escape(resp.get('description', ''))}"
+                             + "".join(f" <a href='#schema-{escape(m)}'>{escape(m)}</a>" for m in models) + "</p>")
                 rex = resp.get("content", {}).get("application/json", {}).get("example")
                 if rex is not None:
                     parts.append("<pre>" + escape(json.dumps(rex, indent=1)) + "</pre>")
             parts.append("</div>")
+    parts.append(schemas_html(spec))
     parts.append("<p><a href='/'>back to the designer</a></p></main></body></html>")
     return HTMLResponse("".join(parts))
