@@ -20,11 +20,25 @@ def _fmt(v) -> str:
     return str(v)
 
 
+def _is_number(cell: str) -> bool:
+    try:
+        float(cell.replace(",", ""))
+        return True
+    except ValueError:
+        return False
+
+
 def table(headers: list[str], rows: list[list]) -> str:
-    """A left-aligned first column and right-aligned numbers, separated by two spaces."""
+    """Columns separated by two spaces: text left-aligned, numbers right-aligned (a column is
+    numeric when every filled cell is a number; "–" marks a missing value), headers likewise."""
     cells = [headers] + [[_fmt(c) for c in r] for r in rows]
     widths = [max(len(r[i]) for r in cells) for i in range(len(headers))]
-    line = lambda r: "  ".join(c.ljust(w) if i == 0 else c.rjust(w) for i, (c, w) in enumerate(zip(r, widths)))  # noqa: E731
+    numeric = [any(_is_number(r[i]) for r in cells[1:])
+               and all(_is_number(r[i]) or r[i] in ("", "–") for r in cells[1:]) for i in range(len(headers))]
+
+    def line(r: list[str]) -> str:
+        return "  ".join(c.rjust(w) if num else c.ljust(w) for c, w, num in zip(r, widths, numeric)).rstrip()
+
     return "\n".join([line(cells[0]), "  ".join("-" * w for w in widths)] + [line(r) for r in cells[1:]])
 
 

@@ -61,3 +61,15 @@ def test_bearing_table_carried_in_the_design():
     with pytest.raises(engine.DesignError) as exc:
         engine.solve(design)
     assert exc.value.errors[0].path == "bearing_table.csv" and "row 2" in exc.value.errors[0].message
+
+
+def test_tables_align_text_left_and_numbers_right():
+    from app.report import table
+
+    out = table(["status", "where", "value", "unit"],
+                [["OK", "x = 50 mm (shoulder)", 2.945, "rad"], ["FAIL", "BV", 1450.0, ""], ["OK", "A", None, "mm"]])
+    lines = out.splitlines()
+    assert lines[0] == "status  where                 value  unit"
+    assert lines[2] == "OK      x = 50 mm (shoulder)  2.945  rad"
+    assert lines[3] == "FAIL    BV                    1,450"
+    assert lines[4] == "OK      A                         –  mm"
