@@ -40,9 +40,17 @@ def cmd_solve(args: argparse.Namespace) -> int:
 
 
 def cmd_serve(args: argparse.Namespace) -> int:
-    from app.server import run
+    from app.server import DEFAULT_PORT, run
 
-    run(host=args.host, port=args.port)
+    port = args.port
+    if port is None:
+        raw = os.environ.get("SHAFTWRIGHT_PORT") or str(DEFAULT_PORT)
+        if not raw.isdigit():
+            raise InputError("", f"SHAFTWRIGHT_PORT must be a port number (1 to 65535), not {raw!r}")
+        port = int(raw)
+    if not 0 < port < 65536:
+        raise InputError("", f"--port must be 1 to 65535, not {port}")
+    run(host=args.host, port=port)
     return 0
 
 
@@ -62,7 +70,9 @@ def cmd_schema(args: argparse.Namespace) -> int:
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of every subcommand (``--help`` explains each option)."""
     parser = argparse.ArgumentParser(
-        prog="shaftwright", description=__doc__.split("\n\n")[0],
+        prog="shaftwright",
+        description="Shaft-and-bearing arrangements from the command line: solve a design file, "
+                    "serve the web app, print the design note, run a study, print the format.",
         epilog="Exit status: 0 done, 1 the work failed, 2 bad input (file, design or option), "
                "3 a needed tool is missing. Results inform design; they do not certify it.")
     sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
@@ -79,8 +89,8 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--host", default="127.0.0.1", metavar="ADDRESS",
                    help="address to listen on (default 127.0.0.1, this machine only; "
                         "0.0.0.0 serves every network the machine is on)")
-    p.add_argument("--port", type=int, default=int(os.environ.get("SHAFTWRIGHT_PORT") or 8000),
-                   metavar="N", help="TCP port to listen on (default 8000, or SHAFTWRIGHT_PORT)")
+    p.add_argument("--port", type=int, default=None, metavar="N",
+                   help="TCP port to listen on (default SHAFTWRIGHT_PORT, else 8000)")
     p.set_defaults(func=cmd_serve)
     p = sub.add_parser("note", help="print a design's note to PDF through headless Chromium",
                        description="Print a design file's design note to PDF (A4) through headless "

@@ -121,3 +121,18 @@ def test_every_option_has_help():
             if action.option_strings and action.dest != "help" or action.dest == "design":
                 assert action.help, f"shaftwright {name} {action.option_strings or action.dest} has no help"
     assert "address to listen on" in sub.choices["serve"].format_help()
+
+
+def test_note_progress_bar_names_its_steps_only_on_a_terminal(tmp_path, capsys):
+    """tqdm draws on stderr when it is a terminal (forced on here); off, it writes nothing."""
+    from app.note import _Progress
+
+    with _Progress(enabled=True) as bar:
+        for what in ("reading and solving the design", "drawing the note", "printing with Chromium"):
+            bar.step(what)
+            bar.tick()
+    err = capsys.readouterr().err
+    assert "printing with Chromium" in err and "2/3" in err
+    with _Progress() as bar:  # stderr is captured here, not a terminal
+        bar.step("reading and solving the design")
+    assert capsys.readouterr().err == ""
