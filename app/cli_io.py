@@ -49,6 +49,8 @@ def _one_line(text: str) -> str:
 
 def read_text_file(path: str | Path, *, what: str = "file") -> str:
     """The text of a UTF-8 file (a leading byte-order mark skipped); :class:`InputError` else."""
+    from app.limits import LimitError, decode_text
+
     p = Path(path)
     try:
         raw = p.read_bytes()
@@ -60,14 +62,11 @@ def read_text_file(path: str | Path, *, what: str = "file") -> str:
         raise InputError(path, "not allowed to read it (permission denied)") from None
     except OSError as exc:
         raise InputError(path, f"cannot read it: {_one_line(exc.strerror or exc)}") from None
-    if raw.startswith(b"\xef\xbb\xbf"):
-        raw = raw[3:]
+
     try:
-        return raw.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        line = raw[:exc.start].count(b"\n") + 1
-        raise InputError(path, f"is not UTF-8 text (byte 0x{raw[exc.start]:02X} on line {line}); "
-                               "save it as UTF-8 and try again") from None
+        return decode_text(raw, what="")
+    except LimitError as exc:
+        raise InputError(path, *design_error_lines(exc.errors)) from None
 
 
 def read_design_file(path: str | Path) -> Any:

@@ -19,7 +19,7 @@ from engine.model import DesignError, Issue
 
 from app.settings import Settings, get_settings
 
-__all__ = ["LimitError", "MAX_DEPTH", "check_size", "parse_json", "check_counts",
+__all__ = ["LimitError", "MAX_DEPTH", "check_size", "decode_text", "parse_json", "check_counts",
            "guard_document", "read_json"]
 
 MAX_DEPTH = 12  # a design is at most 5 levels deep; common practice for JSON bombs: cap it
@@ -50,16 +50,31 @@ def _no_constant(name: str) -> float:
     raise ValueError(f"{name} is not a number a design may hold")
 
 
+def decode_text(raw: bytes, *, what: str = "the document") -> str:
+    """UTF-8 bytes as text, a leading byte-order mark skipped (some Windows editors write one);
+    other bytes are refused, with where the first byte that is not UTF-8 is (the message
+    begins with ``what``, or with "is not" when ``what`` is empty)."""
+    if raw.startswith(b"\xef\xbb\xbf"):
+        raw = raw[3:]
+    try:
+        return raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = raw[:exc.start].count(b"\n") + 1
+        raise LimitError("", f"{what + ' ' if what else ''}is not UTF-8 text (byte 0x{raw[exc.start]:02X} on line {line}); "
+                             "save it as UTF-8 and try again") from None
+
+
 def parse_json(raw: bytes | str, *, settings: Settings | None = None) -> Any:
-    """Size check, then JSON, then the depth and count checks; the parsed value."""
+    """Size check, then UTF-8 text (:func:`decode_text`), JSON, the depth and count checks;
+    the parsed value."""
     settings = _settings(settings)
     check_size(raw, settings=settings)
+    if isinstance(raw, bytes):
+        raw = decode_text(raw)
     try:
         value = json.loads(raw, parse_constant=_no_constant)
     except RecursionError:
         raise LimitError("", f"the document is nested too deeply (at most {MAX_DEPTH} levels)") from None
-    except UnicodeDecodeError:
-        raise LimitError("", "the document is not UTF-8 text") from None
     except ValueError as exc:  # JSONDecodeError included
         raise LimitError("", f"the document is not valid JSON: {exc}") from None
     check_counts(value, settings=settings)

@@ -197,3 +197,10 @@ def test_ten_http_clients_saving_at_once_lose_no_revision(server_factory, design
     revs = httpx.get(srv.url + f"/api/designs/{did}/revisions").json()["revisions"]
     assert [r["revision"] for r in revs] == list(range(1, 32))
     assert {r["comment"] for r in revs[1:]} == {f"{k}/{j}" for k in range(10) for j in range(3)}
+
+
+def test_import_reads_a_file_with_a_byte_order_mark(client, design):
+    """Some Windows editors save UTF-8 with a byte-order mark: the import skips it."""
+    raw = b"\xef\xbb\xbf" + json.dumps(design, ensure_ascii=False).encode("utf-8")
+    r = client.post("/api/designs/import", files={"file": ("bom.json", raw, "application/json")})
+    assert r.status_code == 201, r.text
