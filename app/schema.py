@@ -322,6 +322,7 @@ def api_bodies() -> dict[tuple[str, str], tuple[Any, type[BaseModel] | None, int
     return {
         ("/api/solve", "post"): (Design, Result, 200),
         ("/api/designs", "post"): ((SaveRequest, Design), Revision, 201),
+        ("/api/designs/import", "post"): (None, Revision, 201),  # the file: multipart field "file"
         ("/api/designs/{design_id}", "get"): (None, Revision, 200),
         ("/api/designs/{design_id}/revisions", "get"): (None, RevisionList, 200),
         ("/api/designs/{design_id}/revisions", "post"): (SaveRequest, Revision, 201),
