@@ -45,7 +45,8 @@ def pg_url() -> str:
     """The test server's URL; skips the test without one, or fails it under CI=true."""
     url = os.environ.get(PG_URL_VAR, "")
     if not url:
-        reason = f"{PG_URL_VAR} is not set, so there is no PostgreSQL server to test against"
+        reason = (f"{PG_URL_VAR} is not set, so there is no PostgreSQL server to test against "
+                  "(README, Set-up, says how to run these)")
         if os.environ.get("CI") == "true":
             pytest.fail(f"{reason}; CI must start one (.ci/run does)")
         pytest.skip(reason)
