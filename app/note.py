@@ -469,7 +469,10 @@ def cmd_note(args: argparse.Namespace) -> int:
         if errors:
             raise InputError(path, *design_error_lines(errors))
         meta = NoteMeta(source=path.name, engine_version=engine.__version__)
-        out = print_pdf(document, output, meta=meta, progress=progress)
+        try:
+            out = print_pdf(document, output, meta=meta, progress=progress)
+        except OSError as exc:  # the output's folder cannot be made or written
+            raise InputError(output, f"cannot write the PDF there: {exc.strerror or exc}") from None
     print(f"wrote {out}")
     return 0
 

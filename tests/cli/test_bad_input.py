@@ -136,3 +136,12 @@ def test_note_progress_bar_names_its_steps_only_on_a_terminal(tmp_path, capsys):
     with _Progress() as bar:  # stderr is captured here, not a terminal
         bar.step("reading and solving the design")
     assert capsys.readouterr().err == ""
+
+
+def test_note_output_that_cannot_be_written_is_one_line(tmp_path, capsys):
+    blocker = tmp_path / "a_file"
+    blocker.write_text("", encoding="utf-8")
+    out = blocker / "note.pdf"  # a folder that is a file
+    assert main(["note", str(SAMPLES / "bevel_pinion.json"), "-o", str(out)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and err[0].startswith(f"shaftwright: {out}: cannot write the PDF there")
