@@ -496,10 +496,17 @@ def body_model(schema: dict[str, Any] | None) -> list[str]:
     return [r["$ref"].rsplit("/", 1)[-1] for r in refs if "$ref" in r]
 
 
-def _md_table(rows: Iterable[tuple[str, ...]]) -> list[str]:
+def _md_table(rows: Iterable[tuple[str, ...]], names: Iterable[str] = ()) -> list[str]:
+    """A markdown table of :func:`object_rows`; object names in a type link to their section."""
+    import re
+
+    linked = re.compile(r"\b(" + "|".join(sorted(map(re.escape, names), key=len, reverse=True)) + r")\b") if names else None
     lines = ["| key | type | required / default | limits | meaning |", "|---|---|---|---|---|"]
     for key, typ, need, lim, desc in rows:
-        cells = [f"`{key}`"] + [c.replace("|", "\\|") for c in (typ, need, lim, desc)]
+        typ = typ.replace("|", "\\|")
+        if linked:
+            typ = linked.sub(lambda m: f"[{m.group(1)}](#{m.group(1).lower()})", typ)
+        cells = [f"`{key}`", typ] + [c.replace("|", "\\|") for c in (need, lim, desc)]
         lines.append("| " + " | ".join(cells) + " |")
     return lines
 
@@ -548,7 +555,7 @@ def markdown() -> str:
             if obj.get("description") and obj is not schema:
                 out += [" ".join(obj["description"].split()), ""]
             if rows:
-                out += _md_table(rows)
+                out += _md_table(rows, schema.get("$defs", {}))
             out.append("")
     return "\n".join(out).rstrip() + "\n"
 
