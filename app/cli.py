@@ -50,8 +50,31 @@ def cmd_serve(args: argparse.Namespace) -> int:
         port = int(raw)
     if not 0 < port < 65536:
         raise InputError("", f"--port must be 1 to 65535, not {port}")
+    _check_free(args.host, port)
     run(host=args.host, port=port)
     return 0
+
+
+def _check_free(host: str, port: int) -> None:
+    """Refuse, in one line, an address this machine cannot listen on (before the server starts)."""
+    import errno
+    import socket
+
+    try:
+        infos = socket.getaddrinfo(host, port, type=socket.SOCK_STREAM)
+    except socket.gaierror:
+        raise InputError("", f"--host {host}: not an address of this machine") from None
+    family, _, _, _, addr = infos[0]
+    with socket.socket(family, socket.SOCK_STREAM) as s:
+        s.setsockopt(socket.SOL_SOCKET, socket.SO_REUSEADDR, 1)
+        try:
+            s.bind(addr)
+        except OSError as exc:
+            if exc.errno == errno.EADDRNOTAVAIL:
+                raise InputError("", f"--host {host}: not an address of this machine") from None
+            why = "is in use" if exc.errno == errno.EADDRINUSE else f"cannot be used ({exc.strerror})"
+            raise InputError("", f"port {port} on {host} {why}: pick another with --port N "
+                                 "or SHAFTWRIGHT_PORT") from None
 
 
 def cmd_note(args: argparse.Namespace) -> int:

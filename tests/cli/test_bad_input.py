@@ -145,3 +145,15 @@ def test_note_output_that_cannot_be_written_is_one_line(tmp_path, capsys):
     assert main(["note", str(SAMPLES / "bevel_pinion.json"), "-o", str(out)]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and err[0].startswith(f"shaftwright: {out}: cannot write the PDF there")
+
+
+def test_serve_refuses_a_port_in_use_in_one_line(capsys):
+    import socket
+
+    with socket.socket() as busy:
+        busy.bind(("127.0.0.1", 0))
+        busy.listen()
+        port = busy.getsockname()[1]
+        assert main(["serve", "--port", str(port)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert err == [f"shaftwright: port {port} on 127.0.0.1 is in use: pick another with --port N or SHAFTWRIGHT_PORT"]
