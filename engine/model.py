@@ -17,7 +17,7 @@ from pydantic import AfterValidator, BaseModel, ConfigDict, Field, ValidationErr
 
 __all__ = [
     "FORMAT", "BEARING_TYPES", "ELEMENT_KINDS", "Issue", "DesignError", "EngineError",
-    "Material", "Segment", "Groove", "Shaft", "Support",
+    "Material", "Segment", "Groove", "Shaft", "Support", "SeatFits", "Key", "PressFit",
     "Gear", "BevelGear", "Pulley", "Sprocket", "Coupling", "PointForce", "PointMoment",
     "Element", "BearingTable", "LoadCase", "Lubricant", "Requirements", "Gravity", "Analysis", "Design",
     "parse_design", "TORQUE_TOLERANCE", "BIG", "TINY",
@@ -144,6 +144,16 @@ class Shaft(_Doc):
 
 # --- supports ----------------------------------------------------------------------------
 
+_SHAFT_CLASS = r"^(a|b|c|cd|d|e|ef|f|fg|g|h|js|j|k|m|n|p|r|s|t|u|v|x|y|z|za|zb|zc)(0[01]?|[1-9]|1[0-8])$"
+_HOLE_CLASS = r"^(A|B|C|CD|D|E|EF|F|FG|G|H|JS|J|K|M|N|P|R|S|T|U|V|X|Y|Z|ZA|ZB|ZC)(0[01]?|[1-9]|1[0-8])$"
+
+
+class SeatFits(_Doc):
+    """The designer's ISO 286 tolerance classes for a bearing seat, e.g. shaft "k5", housing "H7"."""
+
+    shaft: Annotated[str, Field(pattern=_SHAFT_CLASS)] | None = None
+    housing: Annotated[str, Field(pattern=_HOLE_CLASS)] | None = None
+
 class Support(_Doc):
     id: str = Field(min_length=1, max_length=40)
     x_mm: NonNeg
@@ -154,16 +164,48 @@ class Support(_Doc):
     bore_mm: Pos | None = None
     dimension_series: list[str] | None = None  # restrict candidates, e.g. ["02", "03"]
     misalignment_limit_rad: Pos | None = None  # overrides the type's default slope limit
+    # mounting (engine.mounting): the ring whose load rotates, and the designer's own fits
+    inner_ring_load: Literal["rotating", "stationary"] = "rotating"
+    fits: SeatFits | None = None
 
 
 # --- elements ----------------------------------------------------------------------------
+
+class Key(_Doc):
+    """A parallel key (engine.mounting). Every size defaults from the DIN 6885-1 table for the
+    seat diameter; the length from the hub width."""
+
+    b_mm: Pos | None = None  # key width
+    h_mm: Pos | None = None  # key height
+    t1_mm: Pos | None = None  # keyseat depth in the shaft
+    length_mm: Pos | None = None
+    ends: Literal["rounded", "square"] = "rounded"  # rounded ends bear over length − b
+    count: Annotated[int, Field(ge=1, le=2)] = 1
+    Sy_MPa: Pos | None = None  # key material yield strength (default 350 MPa, common practice)
+    hub_Sy_MPa: Pos | None = None  # hub material yield strength (default: the shaft's)
+
+
+class PressFit(_Doc):
+    """A press or shrink fit of a hub on the shaft (engine.mounting): an ISO 286 fit or the
+    diametral interference, the hub's outer diameter and material, and the friction coefficient."""
+
+    fit: Annotated[str, Field(pattern=r"^H(6|7|8)/[a-z]{1,2}(5|6|7)$")] | None = None  # e.g. "H7/s6"
+    interference_um: Pos | None = None  # diametral interference, instead of a fit
+    hub_outer_d_mm: Pos | None = None  # default 2 × seat diameter (common practice)
+    friction: Annotated[float, Field(gt=0, le=1)] = 0.12
+    hub_E_GPa: Pos | None = None  # default: the shaft's
+    hub_nu: Annotated[float, Field(ge=0, lt=0.5)] = 0.3
+    shaft_nu: Annotated[float, Field(ge=0, lt=0.5)] = 0.3
+    hub_Sy_MPa: Pos | None = None  # default: the shaft's
+
 
 class _Element(_Doc):
     id: str = Field(min_length=1, max_length=40)
     x_mm: NonNeg
     mass_kg: NonNeg = 0.0
     keyway: Literal["end_milled", "sled_runner"] | None = None
-    press_fit: bool = False
+    key: Key | None = None  # the parallel key in the keyway (sizes default from DIN 6885-1)
+    press_fit: bool | PressFit = False  # true: the default fit H7/s6; or the fit spelled out
     width_mm: Pos | None = None  # hub or face width, for the drawing and the seat
     inertia_kg_m2: NonNeg | None = None  # polar mass moment of inertia about the shaft axis (torsional frequency)
 
@@ -269,6 +311,7 @@ class Requirements(_Doc):
     gear_slope_max_rad: Pos = 0.0005
     shaft_temperature_C: Annotated[float, Field(ge=-60, le=540)] = 20.0  # Marin temperature factor
     notch_sensitivity: Literal["neuber", "kuhn_hardrath"] = "neuber"
+    twist_limit_deg_per_m: Pos | None = None  # angle of twist per metre (default 0.25, common practice)
 
 
 class Gravity(_Doc):
