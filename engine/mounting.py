@@ -858,16 +858,17 @@ def _twist(a, checks: list[Check]) -> list[TwistSpan]:
     return out
 
 
-def mounting(a, bearings: list[Any]) -> MountingOutcome:
+def mounting(a, bearings: list[Any], *, with_fits: bool = True) -> MountingOutcome:
     """Every mounting check of a solved design (``a``: :class:`engine.solve.Analysis` with the
     torque along x set) and its rated bearings: keys, press fits, seats and shoulders, overlaps,
-    grooves, twist; and the bearings with their proposed (or the designer's) fits."""
+    grooves, twist; and the bearings with their proposed (or the designer's) fits
+    (``with_fits=False``: the bearings as given, for a study's figures, which show no fits)."""
     checks: list[Check] = []
     keys = _keys(a, checks)
     fits = _press_fits(a, checks)
     seats = _seats(a, bearings, checks)
     twist = _twist(a, checks)
-    return MountingOutcome(checks=checks, bearings=_fits(a.design, bearings),
+    return MountingOutcome(checks=checks, bearings=_fits(a.design, bearings) if with_fits else list(bearings),
                            mounting=Mounting(keys=keys, press_fits=fits, seats=seats, twist=twist))
 
 
