@@ -152,3 +152,23 @@ def test_requirements_the_form_does_not_show_print_in_words(design):
     assert _extra_row("lubricant", {"iso_vg": 68, "operating_temp_C": 60}) == ("lubricant", "ISO VG 68 at 60 °C", "")
     assert _extra_row("contamination_ec", 0.5) == ("contamination factor ec", "0.5", "")
     assert _extra_row("fatigue_criterion", "de_goodman")[1] == "DE–Goodman"
+
+
+def test_note_has_a_mounting_section_with_keys_fits_seats_and_shoulders():
+    """Issue 12: key sizes and their checks, fits, seat lengths and shoulder heights."""
+    demo = json.loads((ROOT / "sample_data" / "countershaft.json").read_text(encoding="utf-8"))
+    result = engine.solve(demo)
+    html = render_note_html(demo)
+    part = html[html.index('id="mounting"'):html.index('class="page-break">Diagrams')]
+    key = result.mounting.keys[0]
+    assert "P1" in part and f"{key.b_mm:g}×{key.h_mm:g}×{key.length_mm:g}" in part  # 10×8×50, DIN 6885-1
+    for b in result.bearings:
+        assert f"{b.fits.shaft} / {b.fits.housing}" in part
+    seat = result.mounting.seats[0]
+    assert f"{seat.seat_from_mm:g}–{seat.seat_to_mm:g}" in part  # the seat's run, 60–90 mm
+    assert "shoulder height" in part and f"{seat.shoulder_height_mm:g}" in part
+    assert "verify them against the standards" in part
+    # every mounting check that is not ok is spelled out there
+    for c in result.checks:
+        if c.code.startswith("mount.") and c.status != "ok":
+            assert c.message.replace("'", "&#39;") in part
