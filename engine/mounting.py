@@ -467,7 +467,8 @@ def _length_off(shaft, lo: float, hi: float, d_seat: float) -> float:
 
 # --- the entry point ------------------------------------------------------------------------------
 
-CODES_AT_LEAST = frozenset({"mount.key", "mount.press_fit"})
+# checks whose value must reach the limit from above (the rest: value at most limit)
+CODES_AT_LEAST = frozenset({"mount.key", "mount.press_fit", "mount.shoulder_low"})
 
 
 @dataclass(frozen=True)
@@ -759,7 +760,8 @@ def _seats(a, bearings, checks: list[Check]) -> list[SeatRow]:
                 too = "too low" if Dsh < da_lo else "too high"
                 why = ("the ring's side face is not backed past its chamfer" if too == "too low"
                        else "it reaches the cage or seal and leaves no room for a puller")
-                checks.append(Check(code="mount.shoulder", status="fail" if table else "warn", where=s.id,
+                checks.append(Check(code="mount.shoulder_low" if too == "too low" else "mount.shoulder",
+                                    status="fail" if table else "warn", where=s.id,
                                     x_mm=xs, value=Dsh, limit=da_lo if too == "too low" else da_hi, unit="mm",
                                     source=da_src,
                                     message=f"the {Dsh:g} mm shoulder at x = {xs:g} mm is {too} for the bearing at "

@@ -249,7 +249,12 @@ def test_a_shoulder_too_high_for_the_bearing_is_reported():
     r = solve(d)
     sh = [c for c in checks_of(r, "mount.shoulder") if c.where == "A"]
     assert sh and sh[0].status != "ok" and "too high" in sh[0].message and "support A" in sh[0].message
-    assert sh[0].x_mm == 90
+    assert sh[0].x_mm == 90 and sh[0].value == 70 and sh[0].limit == pytest.approx(40 + 0.30 * (90 - 40))
+    # and too low: the demo's 46 mm shoulder against the 40 × 90 mm bearing (rule: at least
+    # d + 0.15·(D − d) = 47.5 mm, common practice)
+    d["shaft"]["segments"][2]["d_mm"] = 46
+    low = [c for c in checks_of(solve(d), "mount.shoulder_low") if c.where == "A"]
+    assert low and "too low" in low[0].message and low[0].limit == pytest.approx(47.5) and low[0].value == 46
 
 
 def test_a_ring_groove_under_a_seat_is_reported():
