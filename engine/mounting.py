@@ -854,7 +854,10 @@ def _twist(a, checks: list[Check]) -> list[TwistSpan]:
                             where=f"{id0} to {id1}", x_mm=(x0 + x1) / 2, load_case=names[j], value=per_m,
                             limit=limit, unit="°/m", source=src,
                             message=f"the shaft twists {deg:.3g}° between {id0} and {id1} ({x1 - x0:g} mm) in "
-                                    f"'{names[j]}': {per_m:.3g}°/m against {limit:g}°/m"))
+                                    f"'{names[j]}': {per_m:.3g}°/m against {limit:g}°/m"
+                                    + ("" if ok or own else
+                                       " (the common-practice limit for precise drives; a line shaft commonly "
+                                       "accepts more: set your own twist limit in the requirements)")))
         out.append(TwistSpan(from_id=id0, to_id=id1, x_from_mm=x0, x_to_mm=x1, angle_deg=deg, deg_per_m=per_m,
                              load_case=names[j]))
     return out

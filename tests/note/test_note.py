@@ -172,3 +172,12 @@ def test_note_has_a_mounting_section_with_keys_fits_seats_and_shoulders():
     for c in result.checks:
         if c.code.startswith("mount.") and c.status != "ok":
             assert c.message.replace("'", "&#39;") in part
+
+
+def test_key_and_press_fit_inputs_print_in_words():
+    from app.note import _extra_row
+    assert _extra_row("key", {"b_mm": 10, "ends": "square"}) == ("parallel key", "width 10 mm; ends square", "")
+    assert _extra_row("press_fit", {"fit": "H7/s6", "hub_outer_d_mm": 100}) == (
+        "press fit", "fit H7/s6; hub outer diameter 100 mm", "")
+    assert _extra_row("keyway", "end_milled") == ("keyway", "end-milled", "")
+    assert _extra_row("twist_limit_deg_per_m", 1.0)[0::2] == ("twist limit", "°/m")
