@@ -129,7 +129,13 @@ def key_stresses(*, T_Nmm, d_mm: float, b_mm: float, h_mm: float, t1_mm: float, 
     pressure is that on the smaller one. Returns (F [N], p_shaft, p_hub, p_key, τ [MPa]).
 
     Shigley [1] Example 7-6 (memory): T = 4200 lbf·in on a 1 7/16 in shaft gives F = 5840 lbf;
-    a 3/8 in square key 1.34 in long bears at 5840/(1.34·0.1875) = 23.2 kpsi.
+    a 3/8 in square key 1.34 in long bears at 5840/(1.34·0.1875) = 23.2 kpsi (the units
+    only need to agree):
+
+    >>> F, ps, ph, pk, tau = key_stresses(T_Nmm=4200, d_mm=1.4375, b_mm=0.375, h_mm=0.375,
+    ...                                   t1_mm=0.1875, bearing_length_mm=1.34)
+    >>> round(float(F)), round(float(pk))
+    (5843, 23258)
     """
     phi = 1.0 if count == 1 else 0.75
     F = 2.0 * np.abs(np.asarray(T_Nmm, float)) / (d_mm * count * phi)
@@ -790,6 +796,22 @@ def _seats(a, bearings, checks: list[Check]) -> list[SeatRow]:
                                     source="geometry: two parts cannot take the same length of shaft",
                                     message=f"{n1} (x = {a0:g}–{a1:g} mm) and {n2} (x = {b0:g}–{b1:g} mm) overlap"
                                             + (f" by {ov:.3g} mm" if ov > 0 else "")))
+    # a hub cannot run onto a larger diameter than its seat
+    edges = shaft.edges_mm()
+    for e in design.elements:
+        if not e.width_mm or e.kind in ("force", "moment"):
+            continue
+        h0, h1 = e.x_mm - e.width_mm / 2, e.x_mm + e.width_mm / 2
+        d_seat = shaft.diameter_at(e.x_mm)
+        for seg, a0, a1 in zip(shaft.segments, edges[:-1], edges[1:]):
+            over = min(h1, a1) - max(h0, a0)
+            if over > OVERLAP_TOL_MM and seg.d_mm > d_seat + 1e-6:
+                xs = a0 if a0 > h0 else a1
+                checks.append(Check(code="mount.seat", status="fail", where=e.id, x_mm=xs, value=over, limit=0.0,
+                                    unit="mm", source="geometry: a hub's bore fits one seat diameter",
+                                    message=f"the hub of {e.kind.replace('_', ' ')} {e.id} (x = {h0:g}–{h1:g} mm, "
+                                            f"bore {d_seat:g} mm) runs {over:.3g} mm onto the {seg.d_mm:g} mm "
+                                            f"diameter at x = {xs:g} mm; move it or shorten its hub"))
     for gi, g in enumerate(shaft.grooves):
         g0, g1 = g.x_mm - g.width_mm / 2, g.x_mm + g.width_mm / 2
         for kind, nm, a0, a1 in spans:

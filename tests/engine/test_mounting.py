@@ -242,6 +242,18 @@ def test_a_gear_overlapping_a_bearing_is_reported():
     assert "gear G1" in ov[0].message and "support B" in ov[0].message
 
 
+def test_a_hub_running_onto_a_larger_diameter_is_reported():
+    d = demo()
+    d["elements"][1]["x_mm"] = 145  # G1's 45 mm hub on the 52 mm seat now reaches back to 122.5 mm
+    r = solve(d)
+    seat = [c for c in checks_of(r, "mount.seat") if c.where == "G1"]
+    assert not seat  # the hub reaches the smaller 46 mm diameter only: it overhangs, it does not collide
+    d["elements"][1]["x_mm"] = 110  # on the 46 mm seat, 87.5–132.5 mm: runs onto the 52 mm part at 130
+    seat = [c for c in checks_of(solve(d), "mount.seat") if c.where == "G1"]
+    assert seat and seat[0].status == "fail" and seat[0].value == pytest.approx(2.5)
+    assert "gear G1" in seat[0].message and "52 mm" in seat[0].message and seat[0].x_mm == 130
+
+
 def test_a_shoulder_too_high_for_the_bearing_is_reported():
     d = demo()
     d["shaft"]["segments"][2]["d_mm"] = 70  # the 90–130 mm step: far above the abutment range
