@@ -166,7 +166,7 @@ def test_note_has_a_mounting_section_with_keys_fits_seats_and_shoulders():
         assert f"{b.fits.shaft} / {b.fits.housing}" in part
     seat = result.mounting.seats[0]
     assert f"{seat.seat_from_mm:g}–{seat.seat_to_mm:g}" in part  # the seat's run, 60–90 mm
-    assert "shoulder height" in part and f"{seat.shoulder_height_mm:g}" in part
+    assert "shoulder d at x, height" in part and f"at {seat.shoulder_x_mm:g}, {seat.shoulder_height_mm:g}" in part
     assert "verify them against the standards" in part
     # every mounting check that is not ok is spelled out there
     for c in result.checks:
