@@ -688,26 +688,28 @@ def _seats(a, bearings, checks: list[Check]) -> list[SeatRow]:
         B = row.B_mm
         lo, hi = s.x_mm - B / 2, s.x_mm + B / 2
         name = f"support {s.id} ({row.designation}, {B:g} mm wide, x = {lo:g}–{hi:g} mm)"
-        d_seat = shaft.diameter_at(s.x_mm) if s.bore_mm is None else s.bore_mm
-        off = _length_off(shaft, lo, hi, row.d_mm)
+        # the shaft's seat diameter under the bearing's middle (a sleeve may make it differ from
+        # the bearing's bore); the seat is judged on the shaft
+        d_seat = shaft.diameter_at(s.x_mm)
+        off = _length_off(shaft, lo, hi, d_seat)
         inside = [st for st in steps if lo + OVERLAP_TOL_MM < st[0] < hi - OVERLAP_TOL_MM]
         if off > OVERLAP_TOL_MM:
             where_step = (f" past the {max(inside[0][1:]):g}/{min(inside[0][1:]):g} mm step at x = {inside[0][0]:g} mm"
                           if inside else " past the shaft's end" if lo < 0 or hi > shaft.length_mm else "")
             checks.append(Check(code="mount.seat", status="fail", where=s.id, x_mm=s.x_mm, value=off, limit=0.0,
                                 unit="mm", source="common practice: a bearing ring sits on one seat diameter",
-                                message=f"the bearing at {name} hangs {off:.3g} mm off its {row.d_mm:g} mm "
+                                message=f"the bearing at {name} hangs {off:.3g} mm off its {d_seat:g} mm "
                                         f"seat{where_step}; move it onto the seat or lengthen the seat"))
         # the seat's length: the run of the seat diameter that holds the bearing's middle
         edges = shaft.edges_mm()
         seg = next((k for k in range(len(shaft.segments)) if edges[k] - 1e-9 <= s.x_mm <= edges[k + 1] + 1e-9
-                    and abs(shaft.segments[k].d_mm - row.d_mm) < 1e-6), None)
+                    and abs(shaft.segments[k].d_mm - d_seat) < 1e-6), None)
         seat_from = seat_to = None
         if seg is not None:
             k0 = k1 = seg
-            while k0 > 0 and abs(shaft.segments[k0 - 1].d_mm - row.d_mm) < 1e-6:
+            while k0 > 0 and abs(shaft.segments[k0 - 1].d_mm - d_seat) < 1e-6:
                 k0 -= 1
-            while k1 < len(shaft.segments) - 1 and abs(shaft.segments[k1 + 1].d_mm - row.d_mm) < 1e-6:
+            while k1 < len(shaft.segments) - 1 and abs(shaft.segments[k1 + 1].d_mm - d_seat) < 1e-6:
                 k1 += 1
             seat_from, seat_to = edges[k0], edges[k1 + 1]
         # what locates it on each side: a shoulder, a ring groove or a neighbour's hub
@@ -718,7 +720,7 @@ def _seats(a, bearings, checks: list[Check]) -> list[SeatRow]:
             for x, dl, dr in steps:
                 d_out = dl if side == "-x" else dr
                 gap = (edge - x) if side == "-x" else (x - edge)
-                if d_out > row.d_mm + 1e-6 and -OVERLAP_TOL_MM <= gap and (best is None or gap < best[0]):
+                if d_out > d_seat + 1e-6 and -OVERLAP_TOL_MM <= gap and (best is None or gap < best[0]):
                     best = (gap, x, d_out)
             if best is not None and best[0] <= max(B, 10.0):
                 nearest[side] = (best[0], best[1], best[2])
@@ -759,7 +761,7 @@ def _seats(a, bearings, checks: list[Check]) -> list[SeatRow]:
         sh_row = {}
         if shoulder is not None:
             side, xs, Dsh = shoulder
-            height = (Dsh - row.d_mm) / 2
+            height = (Dsh - d_seat) / 2
             sh_row = dict(shoulder_x_mm=xs, shoulder_d_mm=Dsh, shoulder_height_mm=height)
             table = da_src != ABUTMENT_RULE
             if Dsh < da_lo - 1e-6 or Dsh > da_hi + 1e-6:
