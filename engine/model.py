@@ -565,8 +565,9 @@ def _press_fit_union(errors: list[dict]) -> list[dict]:
                 if member == "bool" or not given_obj:
                     if member == "bool" and not isinstance(e.get("input"), dict):
                         out.append({"type": "value_error", "loc": loc[:k + 1], "input": e.get("input"),
-                                    "msg": "must be true, false or a press fit {fit or interference_um, "
-                                           "hub_outer_d_mm, friction}"})
+                                    "msg": "must be true, false, or the press fit spelled out: its fit "
+                                           "(such as H7/s6) or its interference, the hub's outer diameter "
+                                           "and the friction coefficient"})
                     continue
                 e = {**e, "loc": loc[:k + 1] + loc[k + 2:]}
         out.append(e)

@@ -359,3 +359,32 @@ def test_every_check_of_every_demo_is_placed(path):
         else:
             assert c.x_mm is not None, (c.code, c.where)
             assert 0 <= c.x_mm <= r.shaft.length_mm
+
+
+# --- input ----------------------------------------------------------------------------------------
+
+def test_mounting_keys_are_optional_and_bad_ones_are_named():
+    parse_design(demo())  # a file without any of the new keys loads as before
+    cases = [
+        (("elements", 0, "press_fit"), [1], "elements[0].press_fit", "true, false, or the press fit"),
+        (("elements", 0, "press_fit"), {"fit": "H7/s6", "interference_um": 30}, "elements[0].press_fit", "give one"),
+        (("elements", 0, "press_fit"), {"fit": "H7/q6"}, "elements[0].press_fit.fit", "H7/s6"),
+        (("elements", 0, "press_fit"), {"hub_outer_d_mm": 30}, "elements[0].press_fit.hub_outer_d_mm", "32 mm"),
+        (("supports", 0, "fits"), {"housing": "h7"}, "supports[0].fits.housing", "H7"),
+        (("requirements", "twist_limit_deg_per_m"), 0, "requirements.twist_limit_deg_per_m", "greater than 0"),
+    ]
+    for where, value, path, words in cases:
+        d = demo()
+        obj = d
+        for k in where[:-1]:
+            obj = obj[k]
+        obj[where[-1]] = value
+        with pytest.raises(DesignError) as exc:
+            parse_design(d)
+        assert [(e.path, words in e.message) for e in exc.value.errors] == [(path, True)], exc.value.errors
+    d = demo()
+    d["elements"][0].pop("keyway")
+    d["elements"][0]["key"] = {"b_mm": 10}
+    with pytest.raises(DesignError) as exc:
+        parse_design(d)
+    assert exc.value.errors[0].path == "elements[0].key" and "P1" in exc.value.errors[0].message
