@@ -333,7 +333,7 @@ class Requirements(_Doc):
     gear_slope_max_rad: Pos = 0.0005
     shaft_temperature_C: Annotated[float, Field(ge=-60, le=540)] = 20.0  # Marin temperature factor
     notch_sensitivity: Literal["neuber", "kuhn_hardrath"] = "neuber"
-    twist_limit_deg_per_m: Pos | None = None  # angle of twist per metre (default 0.25, common practice)
+    twist_limit_deg_per_m: Pos | None = None  # angle of twist per metre; None: 0.25 (common practice, warns only)
 
 
 class Gravity(_Doc):

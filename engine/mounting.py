@@ -859,7 +859,7 @@ def _twist(a, checks: list[Check]) -> list[TwistSpan]:
     if len(carriers) < 2 or T.size == 0:
         return []
     limit = req.twist_limit_deg_per_m if req.twist_limit_deg_per_m is not None else TWIST_LIMIT_DEG_PER_M
-    own = req.twist_limit_deg_per_m is not None
+    own = req.twist_limit_deg_per_m is not None  # the designer's own limit fails, the default warns
     G = design.shaft.material.G_GPa * 1e3
     names = [c.name for c in design.load_cases]
     out = []
