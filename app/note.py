@@ -127,7 +127,6 @@ _EXTRA_LABELS: dict[str, tuple[str, str, str]] = {
     "reliability_method": ("reliability method", "", ""),
     "fatigue_criterion": ("fatigue criterion", "", ""),
     "notch_sensitivity": ("notch sensitivity", "", ""),
-    "twist_limit_deg_per_m": ("twist limit", "ratio", "°/m"),
     "keyway": ("keyway", "", ""),
 }
 # the parts of a key and a press fit (engine.mounting), in words with their units

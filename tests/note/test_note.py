@@ -180,4 +180,7 @@ def test_key_and_press_fit_inputs_print_in_words():
     assert _extra_row("press_fit", {"fit": "H7/s6", "hub_outer_d_mm": 100}) == (
         "press fit", "fit H7/s6; hub outer diameter 100 mm", "")
     assert _extra_row("keyway", "end_milled") == ("keyway", "end-milled", "")
-    assert _extra_row("twist_limit_deg_per_m", 1.0)[0::2] == ("twist limit", "°/m")
+    d = json.loads((ROOT / "sample_data" / "countershaft.json").read_text(encoding="utf-8"))
+    d["requirements"]["twist_limit_deg_per_m"] = 1.5
+    html = render_note_html(d)
+    assert "max. twist" in html and "twist_limit" not in html
