@@ -127,12 +127,21 @@ _EXTRA_LABELS: dict[str, tuple[str, str, str]] = {
     "reliability_method": ("reliability method", "", ""),
     "fatigue_criterion": ("fatigue criterion", "", ""),
     "notch_sensitivity": ("notch sensitivity", "", ""),
+    "keyway": ("keyway", "", ""),
 }
+# the parts of a key and a press fit (engine.mounting), in words with their units
+_PART_WORDS = {"b_mm": ("width", "mm"), "h_mm": ("height", "mm"), "t1_mm": ("keyseat depth", "mm"),
+               "length_mm": ("length", "mm"), "ends": ("ends", ""), "count": ("keys", ""),
+               "Sy_MPa": ("key Sy", "MPa"), "hub_Sy_MPa": ("hub Sy", "MPa"), "fit": ("fit", ""),
+               "interference_um": ("interference", "µm"), "hub_outer_d_mm": ("hub outer diameter", "mm"),
+               "friction": ("friction coefficient", ""), "hub_E_GPa": ("hub E", "GPa"),
+               "hub_nu": ("hub Poisson's ratio", ""), "shaft_nu": ("shaft Poisson's ratio", "")}
 
 
 _EXTRA_VALUES = {"de_goodman": "DE–Goodman", "de_gerber": "DE–Gerber", "asme_elliptic": "ASME elliptic",
                  "soderberg": "Soderberg", "iso281": "ISO 281 a1", "weibull": "Weibull (three-parameter)",
-                 "neuber": "Neuber", "kuhn_hardrath": "Kuhn–Hardrath"}
+                 "neuber": "Neuber", "kuhn_hardrath": "Kuhn–Hardrath", "end_milled": "end-milled",
+                 "sled_runner": "sled-runner"}
 
 
 def _extra_row(key: str, v: Any) -> tuple[str, str, str]:
@@ -150,6 +159,12 @@ def _extra_row(key: str, v: Any) -> tuple[str, str, str]:
         if rest:
             parts.append(_value(rest))
         return ("lubricant", " ".join(parts) or "–", "")
+    if key in ("key", "press_fit") and isinstance(v, dict):
+        words = [f"{_PART_WORDS.get(k, (k, ''))[0]} {_value(x)}{(' ' + _PART_WORDS[k][1]) if _PART_WORDS.get(k, ('', ''))[1] else ''}"
+                 for k, x in v.items()]
+        return ("parallel key" if key == "key" else "press fit", "; ".join(words) or "as standard", "")
+    if key == "press_fit" and isinstance(v, bool):
+        return ("press fit", "yes (H7/s6, hub 2·d assumed)" if v else "no", "")
     if key in _EXTRA_LABELS:
         label, quantity, unit = _EXTRA_LABELS[key]
         text = _value(v, quantity) if quantity else _EXTRA_VALUES.get(str(v), _value(v))

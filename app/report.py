@@ -63,6 +63,8 @@ def text_report(r: Result) -> str:
             out.append(table(["candidate", "d", "D", "B", "C N", "C0 N", "L10 h", "Lnm h", "s0", "verdict"],
                              [[k.designation, k.d_mm, k.D_mm, k.B_mm, k.C_N, k.C0_N, k.L10_h, k.Lnm_h, k.s0,
                                "ok" if k.ok else "; ".join(k.reasons) or "fails"] for k in b.candidates[:5]]))
+        if getattr(b, "fits", None) is not None:
+            out.append(f"  seat fits: shaft {b.fits.shaft}, housing {b.fits.housing} ({b.fits.chosen_by}; {b.fits.basis})")
         for m in b.smallest_by_series:
             out.append(f"  smallest bore in series {m.series} that meets every requirement: "
                        f"{'none up to the largest in the table' if m.d_mm is None else f'{m.d_mm:g} mm ({m.designation})'}")

@@ -33,13 +33,14 @@ __all__ = [
 ]
 
 FAMILIES: tuple[tuple[str, str], ...] = (
-    ("bearings", "Bearings"), ("strength", "Shaft strength"), ("stiffness", "Stiffness"),
-    ("dynamics", "Dynamics"), ("other", "Other"),
+    ("bearings", "Bearings"), ("strength", "Shaft strength"), ("mounting", "Mounting"),
+    ("stiffness", "Stiffness"), ("dynamics", "Dynamics"), ("other", "Other"),
 )
 _FAMILY_TITLE = dict(FAMILIES)
 _FAMILY_ORDER = {k: i for i, (k, _) in enumerate(FAMILIES)}
 RANK = {"fail": 0, "warn": 1, "ok": 2}
-_STIFFNESS = {"shaft.bearing_slope", "shaft.gear_slope", "shaft.gear_deflection", "shaft.mesh_slope"}
+_STIFFNESS = {"shaft.bearing_slope", "shaft.gear_slope", "shaft.gear_deflection", "shaft.mesh_slope",
+              "shaft.twist"}
 _STRENGTH = {"shaft.fatigue", "shaft.yield"}
 _DYNAMICS = {"shaft.critical_speed"}
 SOURCE_CHARS = 64  # one line of the check column at 1440 px; narrower, CSS ends the line with "…"
@@ -48,9 +49,12 @@ SOURCE_PLAIN = 40  # sources up to this long fit one line at 1024 px: no need to
 
 def family_of(code: str) -> str:
     """Family key of a check code: ``bearing.*`` → bearings, fatigue and yield → strength,
-    slopes and deflections → stiffness, critical speed → dynamics, anything else → other."""
+    keys, press fits, seats and shoulders → mounting, slopes, deflections and twist → stiffness,
+    critical speed → dynamics, anything else → other."""
     if code.startswith("bearing."):
         return "bearings"
+    if code.startswith("mount."):
+        return "mounting"
     if code in _STRENGTH:
         return "strength"
     if code in _STIFFNESS or code.endswith(("_slope", "_deflection")):
@@ -316,13 +320,25 @@ def results_view(result: Any) -> ResultsView:
         if r is not None:
             section = _section_words(r.check.where) if topic in ("shaft.fatigue", "shaft.yield") else ""
             gov.append(Governing(topic=topic, label=label, row=r, where=r.where_short, detail=section))
+    twist = _first(rows, {"shaft.twist"})
+    if twist is not None:
+        gov.append(Governing(topic="shaft.twist", label="largest twist per metre", row=twist,
+                             where=twist.check.where))
+    mount = [r for r in rows if r.family == "mounting"]
+    if mount:  # the weakest mounting check stands for its family; the rest are one click away
+        worst = mount[0]
+        more = sum(1 for r in mount[1:] if r.status != "ok")
+        gov.append(Governing(topic="mounting", label=worst.check.message, row=worst, where=worst.where_short,
+                             detail=(f"and {more} more mounting check{'s' if more > 1 else ''} "
+                                     f"{'fail or ' if any(r.status == 'fail' for r in mount[1:]) else ''}"
+                                     "to watch" if more else "")))
     crit = _first(rows, {"shaft.critical_speed"})
     if crit is not None:
         n_c = getattr(result.shaft, "critical_speed_rpm", None)
         gov.append(Governing(topic="shaft.critical_speed", label="operating speed vs first critical speed",
                              row=crit,
                              extra=("first critical", n_c, "speed") if n_c else None))
-    covered = {id(g.row) for g in gov}
+    covered = {id(g.row) for g in gov} | {id(r) for r in mount}
     for r in rows:  # everything else that fails or needs watching is named at the top as well
         if r.status != "ok" and id(r) not in covered:
             gov.append(Governing(topic=r.code, label=r.check.message, row=r, where=r.where_short))

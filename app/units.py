@@ -71,12 +71,13 @@ QUANTITIES: dict[str, Quantity] = {
     "ratio": Quantity("", "", 1.0),
     "count": Quantity("", "", 1.0, 6),
     "temperature": Quantity("°C", "°F", 5.0 / 9.0, 3, us_offset=32.0),
+    "twist": Quantity("°/m", "°/ft", 1.0 / 0.3048, 3),  # angle of twist per length: 1 °/ft = 3.281 °/m
 }
 
 # engine result "unit" strings -> quantity names (for checks, whose unit comes as text)
 _UNIT_TO_QUANTITY = {"mm": "length", "N": "force", "N·m": "moment", "Nm": "moment",
                      "rpm": "speed", "kW": "power", "kg": "mass", "MPa": "stress",
-                     "GPa": "modulus", "h": "time", "rad": "slope", "%": "percent"}
+                     "GPa": "modulus", "h": "time", "rad": "slope", "%": "percent", "°/m": "twist"}
 
 
 _SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")

@@ -112,7 +112,9 @@ SUPPORT_FIELDS = (
 _COMMON = (_f("id", "name", kind="text"),
            _f("kind", "kind", kind="select", options=tuple(KIND_LABELS.items())),
            _f("x_mm", "position x", "length"))
-_TAIL = (_opt("mass_kg", "mass", "mass"), _opt("width_mm", "hub width", "length"))
+_TAIL = (_opt("mass_kg", "mass", "mass"), _opt("width_mm", "hub width", "length"),
+         _f("keyway", "keyway", kind="select", required=False, empty_means="omit",
+            options=(("", "none"), ("end_milled", "end-milled"), ("sled_runner", "sled-runner"))))
 ELEMENT_FIELDS: dict[str, tuple[Field, ...]] = {
     "gear": _COMMON + (
         _f("pitch_d_mm", "pitch diameter", "length"),
@@ -177,6 +179,7 @@ _REQ_SHAFT = (
     _opt("yield_safety_min", "min. yield safety"),
     _opt("gear_deflection_max_mm", "max. deflection at gears", "deflection"),
     _opt("gear_slope_max_rad", "max. slope at gears", "slope"),
+    _opt("twist_limit_deg_per_m", "max. twist", "twist", hint="empty: common practice"),
 )
 REQUIREMENT_FIELDS = _REQ_BEARINGS + (_REQ_EC,) + _REQ_SHAFT
 # requirements.lubricant.*: both grade and temperature, or neither (then no aISO). The

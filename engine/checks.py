@@ -9,6 +9,11 @@ Sections (one per node that needs one, plus one per groove at its root diameter)
 - every shoulder (a change of diameter), with its fillet radius (``fillet_r_mm`` of the
   segment to the right; when missing, a sharp fillet r/d = 0.02 is assumed, Shigley Table 7-1);
 - every element seat, with its keyway or press fit;
+- both hub ends (x ± width/2) of every keyed or press-fitted element, and both ends (or
+  runouts) of a keyseat shorter than its hub (:func:`engine.mounting.hub_sections`); where such
+  a place falls between nodes, M is interpolated linearly along the beam element in each plane
+  (exact between point loads; the shaft's own weight makes it a parabola, whose deviation over
+  one element is negligible) and T, N are the element's;
 - every retaining-ring groove (``shaft.grooves``);
 - every support;
 - in every load case, the points of largest resultant moment and of largest nominal bending stress.
@@ -36,7 +41,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from engine import dynamics, stiffness, strength
+from engine import dynamics, mounting, stiffness, strength
 from engine.result import Check, ShaftSection
 
 __all__ = ["Section", "ShaftCheckOutcome", "shaft_checks", "shoulder_kt", "sort_checks", "AT_LEAST_CODES",
@@ -191,6 +196,23 @@ def _build_sections(a, M_node: np.ndarray, kt_shoulders: np.ndarray | None = Non
             rz.add(k, (1.0, 1.0, 1.0), float("nan"))
         tag(k, "seat", f"seat of {e.id}" + (f" ({', '.join(bits)})" if bits else ""))
 
+    off_node: dict[float, int] = {}
+    for hs in mounting.hub_sections(design):
+        node = node_at(hs.x_mm)
+        if abs(x[node] - hs.x_mm) <= 1e-6:
+            k = section(node)
+        elif round(hs.x_mm, 6) in off_node:
+            k = off_node[round(hs.x_mm, 6)]
+        else:
+            el = int(np.clip(np.searchsorted(x, hs.x_mm) - 1, 0, n_el - 1))
+            secs.append(dict(node=node, x=float(hs.x_mm), d=float(mesh.d_mm[el]), bore=float(mesh.bore_mm[el]),
+                             surface=shaft.segments[int(seg_of_el[el])].surface, labels=[], kind=None,
+                             el=el, t=float((hs.x_mm - x[el]) / mesh.le_mm[el])))
+            k = off_node[round(hs.x_mm, 6)] = len(secs) - 1
+        rz.add(k, hs.kt, hs.r_mm)
+        if hs.label not in secs[k]["labels"]:
+            tag(k, "hub_end", hs.label)
+
     for g in shaft.grooves:
         node = node_at(g.x_mm)
         D = shaft.diameter_at(g.x_mm)
@@ -226,6 +248,23 @@ def _build_sections(a, M_node: np.ndarray, kt_shoulders: np.ndarray | None = Non
     return secs, rz
 
 
+def _section_values(a, secs: list[dict], M_node, T_node, N_node):
+    """(M, T, N) at every section, (n_cases, n_sections): the node's values, or for a section
+    between nodes the moment interpolated linearly in each plane along its beam element and that
+    element's torque and axial force."""
+    nodes = np.array([s["node"] for s in secs])
+    M, T, N = M_node[:, nodes].copy(), T_node[:, nodes].copy(), N_node[:, nodes].copy()
+    for i, s in enumerate(secs):
+        if "el" not in s:
+            continue
+        el, t = s["el"], s["t"]
+        planes = a.beam.M_Nmm[:, :, el, 0] * (1.0 - t) + a.beam.M_Nmm[:, :, el, 1] * t  # (nc, 2)
+        M[:, i] = np.hypot(planes[:, 0], planes[:, 1])
+        T[:, i] = np.abs(np.asarray(a.T_Nmm, float)[:, el])
+        N[:, i] = np.asarray(a.N_N, float)[:, el]
+    return M, T, N
+
+
 def _fatigue_factors(secs: list[dict], rz: _Raisers, *, Su_MPa: float, method: str):
     """Per section: (Kt, Kts, Kf, Kfs, Kf_ax), the largest of its raisers."""
     n = len(secs)
@@ -251,7 +290,7 @@ def _fatigue_factors(secs: list[dict], rz: _Raisers, *, Su_MPa: float, method: s
 # checks whose value must reach the limit from above (safety factors, lives); every other
 # check with a value and a limit is read as "value at most limit"
 AT_LEAST_CODES = frozenset({"shaft.fatigue", "shaft.yield", "bearing.life", "bearing.static",
-                            "bearing.lubrication"})
+                            "bearing.lubrication"}) | mounting.CODES_AT_LEAST
 
 
 def _margin(c: Check) -> float:
@@ -307,7 +346,6 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None, min_diameter:
     sections: list[Section] = []
     min_sf = None
     if secs:
-        nodes = np.array([s["node"] for s in secs])
         d = np.array([s["d"] for s in secs])
         bore = np.array([s["bore"] for s in secs])
         Kt, Kts, Kf, Kfs, Kfa = _fatigue_factors(secs, rz, Su_MPa=mat.Su_MPa, method=req.notch_sensitivity)
@@ -315,7 +353,7 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None, min_diameter:
         Se = (np.array([ka[s["surface"]] for s in secs]) * strength.marin_size(d)
               * strength.marin_temperature(req.shaft_temperature_C) * strength.marin_reliability(req.reliability_pct)
               * (strength.endurance_limit_specimen(mat.Su_MPa) if mat.Se_MPa is None else mat.Se_MPa))
-        M, T, N = M_node[:, nodes], T_node[:, nodes], N_node[:, nodes]
+        M, T, N = _section_values(a, secs, M_node, T_node, N_node)
         alt = np.array([c.torque_alternating_pct / 100.0 for c in cases])[:, None]
         Ta = alt * T
         sb, tm, sax = strength.nominal_stresses(d_mm=d, bore_mm=bore, M_Nmm=M, T_Nmm=T, N_N=N)
@@ -369,6 +407,7 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None, min_diameter:
                          f"Kf {Kf[i]:.2f}, Kfs {Kfs[i]:.2f}, Se {Se[i]:.0f} MPa"
                          + ("" if dmin is None else f", d_min {dmin[i]:.1f} mm")),
                 value=float(n_f[i]), limit=req.fatigue_safety_min, unit="", where=where, load_case=case_f,
+                x_mm=s["x"],
                 source=_FATIGUE_SRC[crit] + ("; Miner's rule, Shigley Eq. 6-57" if miner[i] else "")))
             ok = n_y[i] >= req.yield_safety_min
             checks.append(Check(
@@ -376,7 +415,7 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None, min_diameter:
                 message=(f"first-cycle yield safety {n_y[i]:.3g} at {where}, "
                          f"{'meets' if ok else 'below'} {req.yield_safety_min:g}"),
                 value=float(n_y[i]), limit=req.yield_safety_min, unit="", where=where,
-                load_case=names[int(jy[i])], source=_YIELD_SRC))
+                load_case=names[int(jy[i])], source=_YIELD_SRC, x_mm=s["x"]))
 
     # stiffness -----------------------------------------------------------------------------
     checks += stiffness.bearing_slope_checks(design, slope_rad=a.beam.slope_rad, support_nodes=mesh.support_nodes)

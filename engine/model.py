@@ -11,13 +11,14 @@ or raises :class:`DesignError` carrying *every* problem found, each with the key
 """
 from __future__ import annotations
 
+import re
 from typing import Annotated, Any, Literal, Union
 
 from pydantic import AfterValidator, BaseModel, ConfigDict, Field, ValidationError
 
 __all__ = [
     "FORMAT", "BEARING_TYPES", "ELEMENT_KINDS", "Issue", "DesignError", "EngineError",
-    "Material", "Segment", "Groove", "Shaft", "Support",
+    "Material", "Segment", "Groove", "Shaft", "Support", "SeatFits", "Key", "PressFit",
     "Gear", "BevelGear", "Pulley", "Sprocket", "Coupling", "PointForce", "PointMoment",
     "Element", "BearingTable", "LoadCase", "Lubricant", "Requirements", "Gravity", "Analysis", "Design",
     "parse_design", "TORQUE_TOLERANCE", "BIG", "TINY",
@@ -144,6 +145,37 @@ class Shaft(_Doc):
 
 # --- supports ----------------------------------------------------------------------------
 
+_LETTERS = "a b c cd d e ef f fg g h js j k m n p r s t u v x y z za zb zc".split()
+_GRADE = r"(01|0|[1-9]|1[0-8])"
+_SHAFT_RE = re.compile(rf"^({'|'.join(_LETTERS)}){_GRADE}$")
+_HOLE_RE = re.compile(rf"^({'|'.join(x.upper() for x in _LETTERS)}){_GRADE}$")
+
+
+def _shaft_class(v: str) -> str:
+    if not _SHAFT_RE.match(v):
+        raise ValueError(f"must be an ISO 286 shaft tolerance class: small letter(s) and a grade, e.g. k5 (got {v!r})")
+    return v
+
+
+def _hole_class(v: str) -> str:
+    if not _HOLE_RE.match(v):
+        raise ValueError(f"must be an ISO 286 hole tolerance class: capital letter(s) and a grade, e.g. H7 (got {v!r})")
+    return v
+
+
+def _fit_name(v: str) -> str:
+    hole, _, shaft = v.partition("/")
+    if not (_HOLE_RE.match(hole) and hole.startswith("H") and not hole.startswith("HS") and _SHAFT_RE.match(shaft)):
+        raise ValueError(f"must be a basic-hole fit such as H7/s6 (got {v!r})")
+    return v
+
+
+class SeatFits(_Doc):
+    """The designer's ISO 286 tolerance classes for a bearing seat, e.g. shaft "k5", housing "H7"."""
+
+    shaft: Annotated[str, AfterValidator(_shaft_class)] | None = None
+    housing: Annotated[str, AfterValidator(_hole_class)] | None = None
+
 class Support(_Doc):
     id: str = Field(min_length=1, max_length=40)
     x_mm: NonNeg
@@ -154,16 +186,48 @@ class Support(_Doc):
     bore_mm: Pos | None = None
     dimension_series: list[str] | None = None  # restrict candidates, e.g. ["02", "03"]
     misalignment_limit_rad: Pos | None = None  # overrides the type's default slope limit
+    # mounting (engine.mounting): the ring whose load rotates, and the designer's own fits
+    inner_ring_load: Literal["rotating", "stationary"] = "rotating"
+    fits: SeatFits | None = None
 
 
 # --- elements ----------------------------------------------------------------------------
+
+class Key(_Doc):
+    """A parallel key (engine.mounting). Every size defaults from the DIN 6885-1 table for the
+    seat diameter; the length from the hub width."""
+
+    b_mm: Pos | None = None  # key width
+    h_mm: Pos | None = None  # key height
+    t1_mm: Pos | None = None  # keyseat depth in the shaft
+    length_mm: Pos | None = None
+    ends: Literal["rounded", "square"] = "rounded"  # rounded ends bear over length − b
+    count: Annotated[int, Field(ge=1, le=2)] = 1
+    Sy_MPa: Pos | None = None  # key material yield strength (default 350 MPa, common practice)
+    hub_Sy_MPa: Pos | None = None  # hub material yield strength (default: the shaft's)
+
+
+class PressFit(_Doc):
+    """A press or shrink fit of a hub on the shaft (engine.mounting): an ISO 286 fit or the
+    diametral interference, the hub's outer diameter and material, and the friction coefficient."""
+
+    fit: Annotated[str, AfterValidator(_fit_name)] | None = None  # e.g. "H7/s6"
+    interference_um: Pos | None = None  # diametral interference, instead of a fit
+    hub_outer_d_mm: Pos | None = None  # default 2 × seat diameter (common practice)
+    friction: Annotated[float, Field(gt=0, le=1)] = 0.12
+    hub_E_GPa: Pos | None = None  # default: the shaft's
+    hub_nu: Annotated[float, Field(ge=0, lt=0.5)] = 0.3
+    shaft_nu: Annotated[float, Field(ge=0, lt=0.5)] = 0.3
+    hub_Sy_MPa: Pos | None = None  # default: the shaft's
+
 
 class _Element(_Doc):
     id: str = Field(min_length=1, max_length=40)
     x_mm: NonNeg
     mass_kg: NonNeg = 0.0
     keyway: Literal["end_milled", "sled_runner"] | None = None
-    press_fit: bool = False
+    key: Key | None = None  # the parallel key in the keyway (sizes default from DIN 6885-1)
+    press_fit: bool | PressFit = False  # true: the default fit H7/s6; or the fit spelled out
     width_mm: Pos | None = None  # hub or face width, for the drawing and the seat
     inertia_kg_m2: NonNeg | None = None  # polar mass moment of inertia about the shaft axis (torsional frequency)
 
@@ -269,6 +333,7 @@ class Requirements(_Doc):
     gear_slope_max_rad: Pos = 0.0005
     shaft_temperature_C: Annotated[float, Field(ge=-60, le=540)] = 20.0  # Marin temperature factor
     notch_sensitivity: Literal["neuber", "kuhn_hardrath"] = "neuber"
+    twist_limit_deg_per_m: Pos | None = None  # angle of twist per metre; None: 0.25 (common practice, warns only)
 
 
 class Gravity(_Doc):
@@ -412,6 +477,24 @@ def _semantic(d: Design) -> list[Issue]:
         if e.kind == "pulley" and (e.tension_ratio is None) == (e.pull_factor is None):
             add(f"elements[{i}].tension_ratio", f"pulley {e.id} needs exactly one of 'tension_ratio' or 'pull_factor'")
 
+    for i, e in enumerate(d.elements):
+        if e.key is not None and e.keyway is None:
+            add(f"elements[{i}].key", f"{e.id} has a key but no keyway: give 'keyway' (end_milled or sled_runner)")
+        pf = e.press_fit
+        if not isinstance(pf, bool):
+            if pf.fit is not None and pf.interference_um is not None:
+                add(f"elements[{i}].press_fit", f"the press fit of {e.id} gives both a fit and an interference: give one")
+            elif pf.interference_um is None:
+                from engine.mounting import fit_interference  # local: mounting imports the result models
+                try:
+                    fit_interference(pf.fit or "H7/s6", d.shaft.diameter_at(e.x_mm))
+                except ValueError as exc:
+                    add(f"elements[{i}].press_fit.fit", f"the press fit of {e.id}: {exc}")
+            if pf.hub_outer_d_mm is not None and pf.hub_outer_d_mm <= d.shaft.diameter_at(e.x_mm):
+                add(f"elements[{i}].press_fit.hub_outer_d_mm",
+                    f"the hub of {e.id} must be larger outside ({pf.hub_outer_d_mm:g} mm) than its seat "
+                    f"({d.shaft.diameter_at(e.x_mm):g} mm)")
+
     total = sum(c.time_fraction for c in d.load_cases)
     if abs(total - 1.0) > 1e-6:
         add("load_cases", f"time fractions sum to {total:.4g}; they must sum to 1")
@@ -465,12 +548,35 @@ def parse_design(data: Any) -> Design:
     try:
         design = Design.model_validate(data)
     except ValidationError as exc:
-        issues = [Issue(path=_path(e["loc"]), message=_message(e)) for e in exc.errors()]
+        issues = [Issue(path=_path(e["loc"]), message=_message(e)) for e in _press_fit_union(exc.errors())]
         raise DesignError(_dedupe(issues)) from None
     bad = _semantic(design)
     if bad:
         raise DesignError(bad)
     return design
+
+
+def _press_fit_union(errors: list[dict]) -> list[dict]:
+    """``press_fit`` is true/false or an object: report the object's own problems when an object
+    was given, else one sentence; never the union's member names."""
+    out = []
+    for e in errors:
+        loc = e["loc"]
+        if "press_fit" in loc:
+            k = loc.index("press_fit")
+            member = loc[k + 1] if len(loc) > k + 1 else None
+            if member in ("bool", "PressFit"):
+                given_obj = isinstance(e.get("input"), dict) or len(loc) > k + 2
+                if member == "bool" or not given_obj:
+                    if member == "bool" and not isinstance(e.get("input"), dict):
+                        out.append({"type": "value_error", "loc": loc[:k + 1], "input": e.get("input"),
+                                    "msg": "must be true, false, or the press fit spelled out: its fit "
+                                           "(such as H7/s6) or its interference, the hub's outer diameter "
+                                           "and the friction coefficient"})
+                    continue
+                e = {**e, "loc": loc[:k + 1] + loc[k + 2:]}
+        out.append(e)
+    return out
 
 
 def _dedupe(issues: list[Issue]) -> list[Issue]:

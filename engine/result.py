@@ -7,11 +7,12 @@ from __future__ import annotations
 
 from typing import Literal
 
-from pydantic import BaseModel, ConfigDict
+from pydantic import BaseModel, ConfigDict, model_serializer
 
 __all__ = [
     "RESULT_FORMAT", "ElementForces", "SupportReaction", "CaseResult", "Candidate",
-    "SeriesMinimum", "BearingResult", "ShaftSection", "ShaftSummary", "Check", "Diagrams", "Result",
+    "SeriesMinimum", "BearingFits", "BearingResult", "ShaftSection", "ShaftSummary", "Check", "Diagrams",
+    "KeyRating", "PressFitRating", "SeatRow", "TwistSpan", "Mounting", "Result",
 ]
 
 RESULT_FORMAT = "shaft-result/1"
@@ -82,6 +83,17 @@ class SeriesMinimum(_Out):
     designation: str | None = None
 
 
+class BearingFits(_Out):
+    """ISO 286 tolerance classes for a bearing's seat on the shaft and in the housing;
+    ``chosen_by``: "proposed" (engine.mounting.propose_fits), "designer", or both."""
+
+    shaft: str
+    housing: str
+    chosen_by: str = "proposed"
+    basis: str = ""
+    source: str = ""
+
+
 class BearingResult(_Out):
     id: str
     bearing_type: str
@@ -95,6 +107,7 @@ class BearingResult(_Out):
     candidates: list[Candidate] = []
     smallest_by_series: list[SeriesMinimum] = []
     notes: list[str] = []
+    fits: BearingFits | None = None
 
 
 class ShaftSection(_Out):
@@ -149,6 +162,14 @@ class Check(_Out):
     source: str = ""
     where: str = ""  # support or element id, or "x = … mm"
     load_case: str = ""
+    x_mm: float | None = None  # where along the shaft it applies; absent for whole-shaft checks
+
+    @model_serializer(mode="wrap")
+    def _drop_unplaced(self, handler):
+        out = handler(self)
+        if isinstance(out, dict) and out.get("x_mm", 0) is None:
+            out.pop("x_mm")
+        return out
 
 
 class Diagrams(_Out):
@@ -165,6 +186,91 @@ class Diagrams(_Out):
     load_cases: dict[str, dict[str, list[float]]]
 
 
+class KeyRating(_Out):
+    """A parallel key (engine.mounting): sizes [mm], peak torque, pressures and shear [MPa]."""
+
+    element: str
+    x_mm: float
+    d_mm: float
+    b_mm: float
+    h_mm: float
+    t1_mm: float
+    length_mm: float
+    bearing_length_mm: float
+    count: int = 1
+    standard: bool = True  # sizes from the DIN 6885-1 table
+    peak_torque_Nm: float
+    load_case: str = ""
+    p_shaft_MPa: float
+    p_hub_MPa: float
+    p_key_MPa: float
+    tau_MPa: float
+    safety: float
+
+
+class PressFitRating(_Out):
+    """A press fit (engine.mounting): interference [µm], pressures [MPa], capacities, safeties."""
+
+    element: str
+    x_mm: float
+    d_mm: float
+    fit: str | None = None
+    interference_min_um: float
+    interference_max_um: float
+    hub_outer_d_mm: float
+    length_mm: float
+    friction: float
+    p_min_MPa: float
+    p_max_MPa: float
+    torque_capacity_Nm: float
+    axial_capacity_N: float
+    peak_torque_Nm: float
+    slip_safety: float
+    hub_yield_safety: float
+    shaft_yield_safety: float
+
+
+class SeatRow(_Out):
+    """A bearing's seat: where the ring sits, the seat's run, the locating shoulder [mm]."""
+
+    support: str
+    x_mm: float
+    designation: str
+    d_mm: float
+    D_mm: float
+    width_mm: float
+    from_mm: float
+    to_mm: float
+    seat_d_mm: float
+    seat_from_mm: float | None = None
+    seat_to_mm: float | None = None
+    shoulder_x_mm: float | None = None
+    shoulder_d_mm: float | None = None
+    shoulder_height_mm: float | None = None
+    da_min_mm: float | None = None
+    da_max_mm: float | None = None
+    located_by: list[str] = []
+
+
+class TwistSpan(_Out):
+    """Angle of twist between two torque-carrying elements in the case where it is largest."""
+
+    from_id: str
+    to_id: str
+    x_from_mm: float
+    x_to_mm: float
+    angle_deg: float
+    deg_per_m: float
+    load_case: str
+
+
+class Mounting(_Out):
+    keys: list[KeyRating] = []
+    press_fits: list[PressFitRating] = []
+    seats: list[SeatRow] = []
+    twist: list[TwistSpan] = []
+
+
 class Result(_Out):
     format: Literal["shaft-result/1"] = RESULT_FORMAT
     engine_version: str = ""
@@ -174,3 +280,4 @@ class Result(_Out):
     checks: list[Check] = []
     diagrams: Diagrams
     warnings: list[str] = []
+    mounting: Mounting = Mounting()

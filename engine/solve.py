@@ -20,6 +20,7 @@ from engine.checks import shaft_checks, sort_checks
 from engine.bearings import Catalogue, parse_catalogue, rate_bearings
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_mesh, solve_bending
 from engine.loads import CaseLoads, case_loads
+from engine.mounting import mounting, place_checks
 from engine.model import Design, DesignError, EngineError, Issue, parse_design
 from engine.result import (CaseResult, Diagrams, ElementForces, Result,
                            ShaftSummary, SupportReaction)
@@ -168,6 +169,7 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
     carry_axial(a, Fx)
 
     sc = shaft_checks(a)
+    mt = mounting(a, rated.bearings)  # keys, press fits, seats, fits, twist (engine.mounting)
     u_res = np.hypot(a.beam.u_mm[:, 0], a.beam.u_mm[:, 1])  # (nc, N)
     cases = []
     for j, (case, cl) in enumerate(zip(design.load_cases, a.loads)):
@@ -185,8 +187,8 @@ def solve(design_data: Any, *, diagrams: bool = True, catalogue: Catalogue | Non
         ))
     mass = float(np.sum(a.mesh.A_mm2 * a.mesh.le_mm)) * design.shaft.material.density_kg_m3 * 1e-9
     result = Result(
-        engine_version=engine.__version__, load_cases=cases, bearings=rated.bearings,
-        checks=sort_checks(rated.checks + sc.checks), warnings=rated.warnings,
+        engine_version=engine.__version__, load_cases=cases, bearings=mt.bearings, mounting=mt.mounting,
+        checks=sort_checks(place_checks(design, rated.checks + sc.checks + mt.checks)), warnings=rated.warnings,
         shaft=ShaftSummary(max_deflection_mm=float(u_res.max()), mass_kg=mass, length_mm=design.shaft.length_mm,
                            sections=sc.sections, **sc.summary()),
         diagrams=_diagrams(a) if diagrams else Diagrams(x_mm=[], load_cases={}),

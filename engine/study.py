@@ -958,6 +958,7 @@ class _HeldRating:
                     reasons = [w for w, flag in (("life", life_ok), ("static", static_ok), ("speed", speed_ok))
                                if not flag]
                     cand = SimpleNamespace(designation=str(cat.designation[r]), Lnm_h=float(sc.Lnm_h[g, 0]),
+                                           d_mm=float(cat.d_mm[r]), D_mm=float(cat.D_mm[r]), B_mm=float(cat.B_mm[r]),
                                            L10_h=float(sc.L10_h[g, 0]), s0=float(min(sc.s0[g, 0], LIFE_CAP_H)),
                                            ok=bool(sc.ok[g, 0]), reasons=reasons)
                     bearings.append(SimpleNamespace(id=s.id, bearing_type=s.bearing_type, candidates=[cand]))
@@ -977,6 +978,7 @@ def _mirror_result(design: Design, a: Any, held: tuple[Any, list[Any]] | None = 
 
     from engine.bearings import rate_bearings
     from engine.checks import shaft_checks
+    from engine.mounting import mounting
     from engine.solve import carry_axial
 
     if held is None:
@@ -986,6 +988,7 @@ def _mirror_result(design: Design, a: Any, held: tuple[Any, list[Any]] | None = 
         (split, bearings), bchecks = held, []
     carry_axial(a, split.Fx_N)
     sc = shaft_checks(a, modes=modes, min_diameter=False, kt_shoulders=kt_shoulders)  # no section sizes shown
+    bchecks += mounting(a, bearings, with_fits=False).checks
     shaft = SimpleNamespace(min_safety_factor=sc.min_safety_factor, critical_speed_rpm=sc.critical_speed_rpm)
     cases = [SimpleNamespace(speed_rpm=c.speed_rpm) for c in design.load_cases]
     return SimpleNamespace(bearings=bearings, checks=bchecks + list(sc.checks), shaft=shaft, load_cases=cases)

@@ -8,7 +8,7 @@ import importlib
 import pytest
 
 MODULES = ["engine.strength", "engine.stiffness", "engine.dynamics", "engine.checks", "engine.beam",
-           "engine.loads"]
+           "engine.loads", "engine.mounting"]
 
 
 @pytest.mark.parametrize("name", MODULES)

@@ -320,6 +320,14 @@ def _new_element(rng: random.Random, L: float, i: int) -> dict:
         e["keyway"] = rng.choice(["end_milled", "sled_runner"])
     if rng.random() < 0.2:
         e["press_fit"] = True
+    if rng.random() < 0.15:  # the mounting keys (engine.mounting) at their bounds
+        e["press_fit"] = {"fit": rng.choice(["H7/s6", "H7/u6", "H7/k6", "H6/r5"]),
+                          "hub_outer_d_mm": rng.choice([1e-9, 50, 1e9]), "friction": rng.choice([1e-9, 0.12, 1])}
+    if rng.random() < 0.15:
+        e["keyway"] = "end_milled"
+        e["key"] = {k: rng.choice([1e-9, 3, 1e9]) for k in rng.sample(["b_mm", "h_mm", "t1_mm", "length_mm"], 2)}
+    if rng.random() < 0.3:
+        e["width_mm"] = rng.choice([1e-9, 20, 80, 1e9])
     if rng.random() < 0.2:
         e["inertia_kg_m2"] = rng.choice([0, 1e-12, 0.05, 1e9])
     return e

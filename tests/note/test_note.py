@@ -180,3 +180,35 @@ def test_line_shaft_note_renders():
 
     html = render_note_html(load_sample("line_shaft.json"))
     assert "Bending moment in the x–z plane" in html
+
+
+def test_note_has_a_mounting_section_with_keys_fits_seats_and_shoulders():
+    """Issue 12: key sizes and their checks, fits, seat lengths and shoulder heights."""
+    demo = json.loads((ROOT / "sample_data" / "countershaft.json").read_text(encoding="utf-8"))
+    result = engine.solve(demo)
+    html = render_note_html(demo)
+    part = html[html.index('id="mounting"'):html.index('class="page-break">Diagrams')]
+    key = result.mounting.keys[0]
+    assert "P1" in part and f"{key.b_mm:g}×{key.h_mm:g}×{key.length_mm:g}" in part  # 10×8×50, DIN 6885-1
+    for b in result.bearings:
+        assert f"{b.fits.shaft} / {b.fits.housing}" in part
+    seat = result.mounting.seats[0]
+    assert f"{seat.seat_from_mm:g}–{seat.seat_to_mm:g}" in part  # the seat's run, 60–90 mm
+    assert "shoulder d at x, height" in part and f"at {seat.shoulder_x_mm:g}, {seat.shoulder_height_mm:g}" in part
+    assert "verify them against the standards" in part
+    # every mounting check that is not ok is spelled out there
+    for c in result.checks:
+        if c.code.startswith("mount.") and c.status != "ok":
+            assert c.message.replace("'", "&#39;") in part
+
+
+def test_key_and_press_fit_inputs_print_in_words():
+    from app.note import _extra_row
+    assert _extra_row("key", {"b_mm": 10, "ends": "square"}) == ("parallel key", "width 10 mm; ends square", "")
+    assert _extra_row("press_fit", {"fit": "H7/s6", "hub_outer_d_mm": 100}) == (
+        "press fit", "fit H7/s6; hub outer diameter 100 mm", "")
+    assert _extra_row("keyway", "end_milled") == ("keyway", "end-milled", "")
+    d = json.loads((ROOT / "sample_data" / "countershaft.json").read_text(encoding="utf-8"))
+    d["requirements"]["twist_limit_deg_per_m"] = 1.5
+    html = render_note_html(d)
+    assert "max. twist" in html and "twist_limit" not in html

@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 import engine
+import pytest
 from app import units, web
 from app.routers.pages import demo_design
 
@@ -133,3 +134,22 @@ def test_every_sample_design_survives_the_form_and_draws():
         res = engine.solve(d)
         xml.dom.minidom.parseString(drawing.shaft_svg(d, res))
     assert seen >= 1
+
+
+def test_keyway_and_twist_limit_boxes():
+    """Issue 12: the keyway is a choice on every part, the twist limit a requirement (°/m,
+    °/ft in US units: 1 °/ft = 1/0.3048 °/m, derived)."""
+    d = demo_design()
+    d["elements"][0]["keyway"] = "sled_runner"
+    form = web.design_to_form(d)
+    assert form["elements[0].keyway"] == "sled_runner" and "keyway" not in form.get("elements[0]._extra", "")
+    form["elements[0].keyway"] = ""
+    form["requirements.twist_limit_deg_per_m"] = "0.5"
+    back, issues = web.form_to_design(form)
+    assert issues == [] and "keyway" not in back["elements"][0]
+    assert back["requirements"]["twist_limit_deg_per_m"] == 0.5
+    us = web.design_to_form(back, "us")
+    assert float(us["requirements.twist_limit_deg_per_m"]) == pytest.approx(0.5 * 0.3048, rel=1e-3)
+    us["requirements.twist_limit_deg_per_m"] = "0.1"
+    back, _ = web.form_to_design(us)
+    assert back["requirements"]["twist_limit_deg_per_m"] == pytest.approx(0.1 / 0.3048)

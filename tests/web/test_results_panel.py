@@ -208,3 +208,15 @@ def test_unexpected_engine_fault_is_a_message_not_a_crash(client, monkeypatch):
     r = client.post("/editor/solve", data=web.design_to_form(pages.demo_design()))
     assert r.status_code == 422
     assert "could not solve" in r.text
+
+
+def test_bearing_rows_show_their_seat_fits(client):
+    """Issue 12: each bearing's proposed ISO 286 fits in its row of the results."""
+    r = client.post("/editor/solve", data=web.design_to_form(pages.demo_design()))
+    assert r.status_code == 200
+    import re
+    rows = re.findall(r'<details class="bearing" id="brg-([^"]+)">\s*<summary>(.*?)</summary>', r.text, re.S)
+    assert [sid for sid, _ in rows] == ["A", "B"]
+    for _, summary in rows:
+        assert re.search(r"fits: shaft <strong>[a-z]+\d</strong>, housing <strong>[A-Z]+\d</strong>", summary)
+    assert "fits: shaft <strong>k5</strong>, housing <strong>H7</strong>" in rows[0][1]
