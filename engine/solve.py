@@ -19,7 +19,7 @@ import numpy as np
 
 import engine
 from engine.checks import shaft_checks, sort_checks
-from engine.bearings import Catalogue, parse_catalogue, rate_bearings
+from engine.bearings import BearingOutcome, Catalogue, parse_catalogue, rate_bearings_many
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_meshes, solve_bending_many
 from engine.dynamics import dynamics_elements, lateral_frequencies_many
 from engine.loads import CaseLoads, case_loads
@@ -245,12 +245,32 @@ def _own_table(csv: str, name: str) -> Catalogue:
                            for e in exc.errors]) from None
 
 
-def _finish(a: Analysis, catalogue: Catalogue | None, diagrams: bool) -> Result:
-    """Bearings, axial force and torque, shaft checks, backstop and the Result of one analysed design."""
+def _rate_all(analyses: Sequence[Analysis], catalogue: Catalogue | None) -> list[BearingOutcome | DesignError]:
+    """The bearings of every analysed design, those on one bearing table rated together
+    (:func:`engine.bearings.rate_bearings_many`)."""
+    out: list[Any] = [None] * len(analyses)
+    by_table: dict[int, tuple[Catalogue | None, list[int]]] = {}
+    for k, a in enumerate(analyses):
+        cat = catalogue
+        if cat is None and a.design.bearing_table is not None:
+            try:
+                cat = _own_table(a.design.bearing_table.csv, a.design.bearing_table.name)
+            except DesignError as exc:
+                out[k] = exc
+                continue
+        by_table.setdefault(id(cat), (cat, []))[1].append(k)
+    for cat, ks in by_table.values():
+        rated = rate_bearings_many([analyses[k].design for k in ks], Fr_N=[analyses[k].Fr_N for k in ks],
+                                   Fa_ext_N=[analyses[k].Fa_ext_N for k in ks], catalogue=cat)
+        for k, r in zip(ks, rated):
+            out[k] = r
+    return out
+
+
+def _finish(a: Analysis, rated: BearingOutcome, diagrams: bool) -> Result:
+    """Axial force and torque, shaft checks, backstop and the Result of one analysed design
+    whose bearings are rated."""
     design = a.design
-    if catalogue is None and design.bearing_table is not None:
-        catalogue = _own_table(design.bearing_table.csv, design.bearing_table.name)
-    rated = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N, catalogue=catalogue)
     Fa, Fx = rated.split.Fa_N, rated.split.Fx_N
     carry_axial(a, Fx)
     _check_arrays(a, Fa, Fx)
@@ -306,12 +326,16 @@ def solve_many(designs: Sequence[Any], *, diagrams: bool = True,
         except DesignError as exc:
             out[k] = exc
     analyses = analyse_many([d for _, d in parsed])
+    good = [(k, a) for (k, _), a in zip(parsed, analyses) if not isinstance(a, Exception)]
     for (k, _), a in zip(parsed, analyses):
         if isinstance(a, Exception):
             out[k] = a
+    for (k, a), rated in zip(good, _rate_all([a for _, a in good], catalogue)):
+        if isinstance(rated, Exception):
+            out[k] = rated
             continue
         try:
-            out[k] = _finish(a, catalogue, diagrams)
+            out[k] = _finish(a, rated, diagrams)
         except (DesignError, EngineError) as exc:
             out[k] = exc
     return out
