@@ -32,21 +32,11 @@ import numpy as np  # noqa: E402
 
 from engine.model import parse_design  # noqa: E402
 from engine.solve import analyse  # noqa: E402
-from tests.engine.test_against_pynite import E, G, LOADS, SEGMENTS, SUPPORTS  # noqa: E402
+from tests.engine.test_against_pynite import E, G, LOADS, three_support_design  # noqa: E402
 
 
 def design(n: int):
-    return parse_design({
-        "name": "three-support benchmark",
-        "shaft": {"material": {"E_GPa": E / 1e3, "G_GPa": G / 1e3},
-                  "segments": [{"length_mm": L, "d_mm": d} for L, d in SEGMENTS]},
-        "supports": [{"id": f"S{i}", "x_mm": x, "axial": "both" if i == 0 else "none", "bearing_type": None}
-                     for i, x in enumerate(SUPPORTS)],
-        "elements": [{"id": f"F{i}", "kind": "force", "x_mm": x, "Fy_N": fy, "Fz_N": fz}
-                     for i, (x, fy, fz) in enumerate(LOADS)],
-        "load_cases": [{"name": "c", "speed_rpm": 100}],
-        "gravity": None, "analysis": {"shear_deformation": False, "elements": n},
-    })
+    return parse_design(three_support_design(n))
 
 
 def pynite_model(mesh):
