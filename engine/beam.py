@@ -403,9 +403,13 @@ def axial_and_torque(mesh: Mesh, x_load_mm: np.ndarray, Fx_N: np.ndarray, T_Nmm:
     at a node counts as left of the element that starts there. N = −Σ_left Fx, T = Σ_left T.
     """
     starts = mesh.x_mm[:-1]
-    left = (x_load_mm[None, :] <= starts[:, None] + 1e-9).astype(float)  # (n_el, n_loads)
-    N = -(Fx_N @ left.T)
-    T = T_Nmm @ left.T
+    # running sums over the loads in order of x, read at each element start: O(N + loads)
+    order = np.argsort(x_load_mm, kind="stable")
+    xs = np.asarray(x_load_mm, float)[order]
+    count = np.searchsorted(xs, starts + 1e-9, side="right")  # loads at or left of each start
+    zero = np.zeros((Fx_N.shape[0], 1))
+    N = -np.concatenate([zero, np.cumsum(Fx_N[:, order], axis=1)], axis=1)[:, count]
+    T = np.concatenate([zero, np.cumsum(T_Nmm[:, order], axis=1)], axis=1)[:, count]
     # distributed axial weight: value at each element's mid-point
     cum = np.concatenate([[0.0], np.cumsum(mesh.A_mm2 * mesh.le_mm)])  # volume from the left end
     vol_mid = 0.5 * (cum[:-1] + cum[1:])
