@@ -224,10 +224,14 @@ def _subspace(solve_K, mul_M, diagM: np.ndarray, off: np.ndarray, n_modes: int, 
     done = np.zeros(B, dtype=bool)
     collapsed = np.zeros(B, dtype=bool)
     old = None
+    MX = mul_M(X)
+    # X = Y·Q block by block; one block without the (n, p, p) gather, by the same arithmetic
+    rows_of = ((lambda Z, Q: np.einsum("np,pq->nq", Z, Q[0])) if B == 1  # noqa: E731
+               else (lambda Z, Q: np.einsum("np,npq->nq", Z, Q[owner])))
     for _ in range(max_iter):
-        MX = mul_M(X)
         Y = solve_K(MX)
-        Kr, Mr = _blocks_T(Y, MX, off), _blocks_T(Y, mul_M(Y), off)
+        MY = mul_M(Y)
+        Kr, Mr = _blocks_T(Y, MX, off), _blocks_T(Y, MY, off)
         Kr, Mr = 0.5 * (Kr + _T(Kr)), 0.5 * (Mr + _T(Mr))
         live = ~done & ~collapsed
         try:
@@ -242,7 +246,8 @@ def _subspace(solve_K, mul_M, diagM: np.ndarray, off: np.ndarray, n_modes: int, 
                     # has fewer significant directions than p)
                     collapsed[b] = True
             live &= ~collapsed
-        X = np.einsum("np,npq->nq", Y, Q[owner])
+        X = rows_of(Y, Q)
+        MX = rows_of(MY, Q)  # M·X of the next step without another product with M
         low = lam[:, :n_modes]
         if old is not None:
             conv = live & np.all(np.abs(low - old) <= tol * np.abs(low), axis=1)
