@@ -194,13 +194,11 @@ def _pin(ab: np.ndarray, dofs: np.ndarray) -> None:
     dofs = np.asarray(dofs, dtype=np.intp)
     if not dofs.size:
         return
-    n = ab.shape[1]
     for k in range(1, ab.shape[0]):
         ab[k, dofs] = 0.0                      # column below the diagonal: K[r + k, r]
         left = dofs - k
         ab[k, left[left >= 0]] = 0.0           # row left of the diagonal: K[r, r − k]
     ab[0, dofs] = 1.0
-    del n
 
 
 def chain_bands(meshes: Sequence[Mesh]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:

@@ -9,7 +9,8 @@ parse_variable       a variable path (``supports.B.x_mm``) -> :class:`Variable`,
 parse_values         a range ``start:stop:count`` or a list of values -> tuple of values
 parse_study          design + ``["supports.B.x_mm=300:500:21", ...]`` -> :class:`Study`
 apply_values         a design mapping with the study's variables set to given values
-run_study            solve every variant -> :class:`StudyResult` (figures per variant)
+iter_study           solve the variants chunk by chunk (engine.solve_many), yielding figures; stoppable
+run_study            every variant -> :class:`StudyResult` (figures per variant), with progress and stop
 arrangement_design   a design mapping with one of :data:`ARRANGEMENTS` applied
 compare_arrangements every arrangement of :data:`ARRANGEMENTS` solved and ranked
 
