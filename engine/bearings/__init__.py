@@ -384,12 +384,11 @@ def _bearing_result(design: Design, i: int, sp: _Support, sc: Screen, order: np.
 
 
 def _rate_group(designs: Sequence[Design], Frs: Sequence[np.ndarray], Kas: Sequence[np.ndarray], cat: Catalogue,
-                own_table: bool) -> list[BearingOutcome | EngineError]:
+                own_table: bool, life: _Life) -> list[BearingOutcome | EngineError]:
     """Designs of one bearing layout (:func:`_layout_key`): the axial split of each, then every
     support's rows screened over (variants × cases × rows) at once, then per design the
     refinement of an induced-force pair, the candidates, checks and results."""
     d0 = designs[0]
-    life = _life_method(d0)
     sups = {i: _Support(d0, i, cat) for i, s in enumerate(d0.supports) if s.bearing_type is not None}
     splits: list[Any] = []
     for d, Fr, Ka in zip(designs, Frs, Kas):
@@ -438,10 +437,11 @@ def rate_bearings_many(designs: Sequence[Design], *, Fr_N: Sequence[np.ndarray],
     cat = bundled_catalogue() if catalogue is None else catalogue
     out: list[Any] = [None] * len(designs)
     groups: dict[tuple, list[int]] = {}
+    lives: dict[int, _Life] = {}
     for k, d in enumerate(designs):
         try:
             check_contact_angles(d)  # before the first-pass induced ratios look the angle up
-            _life_method(d)
+            lives[k] = _life_method(d)
         except EngineError as exc:
             out[k] = exc
             continue
@@ -449,7 +449,8 @@ def rate_bearings_many(designs: Sequence[Design], *, Fr_N: Sequence[np.ndarray],
     for ks in groups.values():
         Frs = [np.atleast_2d(np.asarray(Fr_N[k], float)) for k in ks]
         Kas = [np.asarray(Fa_ext_N[k], float).reshape(-1) for k in ks]
-        for k, r in zip(ks, _rate_group([designs[k] for k in ks], Frs, Kas, cat, catalogue is not None)):
+        for k, r in zip(ks, _rate_group([designs[k] for k in ks], Frs, Kas, cat, catalogue is not None,
+                                        lives[ks[0]])):
             out[k] = r
     return out
 
