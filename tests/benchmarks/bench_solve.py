@@ -42,8 +42,29 @@ def measure(design_path: str, runs: int) -> dict:
         solve(design)
         ts.append(time.perf_counter() - t0)
     ts.sort()
+    # where the time goes: the steps of engine.solve_many one by one (medians)
+    import engine.checks as checks_mod
+    S = sys.modules["engine.solve"]
+
+    def med(fn, n: int = max(20, runs // 3)) -> float:
+        xs = []
+        for _ in range(n):
+            t0 = time.perf_counter()
+            fn()
+            xs.append(time.perf_counter() - t0)
+        return statistics.median(xs) * 1e3
+
+    a = S.analyse_many([design])[0]
+    rated = S._rate_all([a], None)[0]
+    S.carry_axial(a, rated.split.Fx_N)
+    steps = {"structure (loads, meshes, banded bending, modes)": med(lambda: S.analyse_many([design])),
+             "bearings": med(lambda: S._rate_all([a], None)),
+             "shaft checks (engine/checks.py)": med(lambda: checks_mod.shaft_checks(a)),
+             "result, backstop, diagrams": med(lambda: S._finish(a, rated, True))}
+    steps["result, backstop, diagrams"] -= steps["shaft checks (engine/checks.py)"]
     return {"median_ms": statistics.median(ts) * 1e3, "p95_ms": ts[int(0.95 * (len(ts) - 1))] * 1e3,
-            "load": os.getloadavg()[0], "threads": os.environ.get("OPENBLAS_NUM_THREADS", "default")}
+            "load": os.getloadavg()[0], "threads": os.environ.get("OPENBLAS_NUM_THREADS", "default"),
+            "steps": steps}
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -65,6 +86,7 @@ def main(argv: list[str] | None = None) -> int:
         out[label] = m = json.loads(r.stdout.strip().splitlines()[-1])
         print(f"{label:>21}: median {m['median_ms']:.2f} ms, p95 {m['p95_ms']:.2f} ms "
               f"(load average {m['load']:.2f}; {Path(args.design).name}, {args.runs} runs)")
+        print("   steps (medians): " + "; ".join(f"{k} {v:.2f} ms" for k, v in m["steps"].items()))
     a, b = (v["median_ms"] for v in out.values())
     spread = abs(a - b) / min(a, b)
     print(f"the two medians differ by {spread * 100:.0f} % (target at most 30 %); budget {BUDGET_MS:g} ms")
