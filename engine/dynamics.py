@@ -186,6 +186,23 @@ def generalized_eigen(K: np.ndarray, M: np.ndarray) -> tuple[np.ndarray, np.ndar
 _START_SEED = 20240611
 
 
+def _ritz(Kr: np.ndarray, Mr: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """The Rayleigh–Ritz step of the subspace iteration on a stack of small pairs (B, p, p):
+    the reduction of :func:`generalized_eigen` (K = L·Lᵀ, (L⁻¹ M L⁻ᵀ) ψ = μ ψ, λ = 1/μ,
+    Bathe [2] §10.2.5) with the M-normalisation read off μ (φᵀ M φ = ψᵀ(L⁻¹ M L⁻ᵀ)ψ = μ),
+    so no further product with M. Returns (λ ascending, Φ). Raises LinAlgError when K is not
+    positive definite (the trial space has collapsed)."""
+    Linv = np.linalg.inv(np.linalg.cholesky(Kr))
+    A = Linv @ Mr @ _T(Linv)
+    mu, psi = np.linalg.eigh(0.5 * (A + _T(A)))
+    mu, psi = mu[..., ::-1], psi[..., ::-1]
+    good = mu > 1e-14 * mu[..., :1]
+    with np.errstate(divide="ignore"):
+        lam = np.where(good, 1.0 / np.where(good, mu, 1.0), np.inf)
+    phi = (_T(Linv) @ psi) / np.sqrt(np.where(good, mu, 1.0))[..., None, :]
+    return lam, phi
+
+
 def _start_vectors(sizes: np.ndarray, diagM: np.ndarray, p: int) -> np.ndarray:
     """Trial vectors of the subspace iteration: the mass diagonal and fixed pseudo-random
     columns, the same for every block by local row (a design's modes do not depend on the
@@ -209,7 +226,7 @@ def _subspace(solve_K, mul_M, diagM: np.ndarray, off: np.ndarray, n_modes: int, 
     ``solve_K(Z)`` = K⁻¹·Z and ``mul_M(Z)`` = M·Z act on the whole chain (n, p); ``off`` are
     the blocks' row offsets. With p = max(2q, q + 4) trial vectors X per block: Y = K⁻¹·M·X,
     the Rayleigh–Ritz problem (YᵀKY) Q = (YᵀMY) Q Λ of size p (YᵀKY = Yᵀ(MX) since KY = MX)
-    by :func:`generalized_eigen`, X = Y·Q, until the q lowest λ of a block change by less than
+    by :func:`_ritz`, X = Y·Q, until the q lowest λ of a block change by less than
     ``tol`` (relative); a converged block keeps the pairs of the step it converged at.
     Returns (λ (B, q), Φ (n, q) M-orthonormal per block, collapsed (B,) bool: blocks whose
     trial space collapsed, which the caller solves in full).
@@ -235,12 +252,12 @@ def _subspace(solve_K, mul_M, diagM: np.ndarray, off: np.ndarray, n_modes: int, 
         Kr, Mr = 0.5 * (Kr + _T(Kr)), 0.5 * (Mr + _T(Mr))
         live = ~done & ~collapsed
         try:
-            lam, Q = generalized_eigen(Kr, Mr)
+            lam, Q = _ritz(Kr, Mr)
         except np.linalg.LinAlgError:
             lam, Q = np.full((B, p), np.nan), np.zeros((B, p, p))
             for b in np.flatnonzero(live):
                 try:
-                    lam[b], Q[b] = generalized_eigen(Kr[b], Mr[b])
+                    lam[b], Q[b] = _ritz(Kr[b:b + 1], Mr[b:b + 1])
                 except np.linalg.LinAlgError:
                     # the trial space has collapsed (few masses carry nearly all the mass, so M
                     # has fewer significant directions than p)
