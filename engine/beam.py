@@ -32,6 +32,11 @@ Many designs at once (a study's variants, ``engine.solve_many``): :func:`solve_b
 lays the band of every design end to end into one band (a block-diagonal matrix of bands is
 itself a band of the same width), so all of them are factored and solved by one LAPACK call;
 one design is the case of a list of one.
+
+Precision: the condition of the bending stiffness grows as N⁴, so very fine meshes cost
+digits in any displacement solver (the dense LU solve this replaced behaved the same): on a
+700 mm shaft the reactions move by about 2e-6 relative at 1000 elements and 1e-3 at 5000;
+at the default 120 elements they agree with the coarsest mesh to about 1e-9.
 """
 from __future__ import annotations
 
