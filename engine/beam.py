@@ -13,18 +13,31 @@ Both planes share one stiffness matrix (the section is round): the x–y plane i
 (uy, θz = duy/dx) and the x–z plane for (uz, duz/dx), as columns of one right-hand side,
 every load case at once. Supports are simple (no moment restraint), rigid or elastic
 (``radial_stiffness_N_per_mm``); any number from two up. Rigid supports are removed from the
-system, so a statically indeterminate shaft is solved exactly, not by penalty. For point
-loads at nodes and the consistent load of the shaft's weight the nodal results are exact.
+system (their row and column replaced by the identity, which keeps the band), so a statically
+indeterminate shaft is solved exactly, not by penalty. For point loads at nodes and the
+consistent load of the shaft's weight the nodal results are exact.
+
+Storage and solve: with the DOFs in node order [v0, θ0, v1, θ1, …] the stiffness of a chain of
+two-node elements is a symmetric band of half-width 3, kept in LAPACK's lower band storage
+(4, 2N): ``ab[k, j] = K[j + k, j]`` (:func:`band_assemble`). It is factored and solved by
+LAPACK's ``dpbsv`` (banded Cholesky, Golub & Van Loan, *Matrix Computations*, 4th ed.,
+§4.3.5), serial and O(N) in time and memory; reactions are banded products (K·u − f,
+:func:`band_matvec`). No dense 2N×2N matrix is formed.
 
 Axial force and torque are statically determinate along the shaft (supports are free in
 torsion; the axial reaction comes from the bearing arrangement), so they are summed from
 the left: N(x) = −Σ_left Fx (tension positive), T(x) = Σ_left torque.
 
-Many designs at once (a study's variants): :func:`stack_meshes` stacks meshes of one size
-along a leading axis, which :func:`bending_stiffness` and :func:`assemble` carry through;
-:func:`solve_bending_many` solves the bending of all of them by block-tridiagonal elimination.
-One design stays on :func:`solve_bending` (one dense LAPACK solve: as fast as the block loop
-for a single design here, 1.7 against 1.8 ms, and the reference the batched path is tested on).
+Many designs at once (a study's variants, ``engine.solve_many``): :func:`solve_bending_many`
+lays the band of every design end to end into one band (a block-diagonal matrix of bands is
+itself a band of the same width), so all of them are factored and solved by one LAPACK call;
+one design is the case of a list of one.
+
+Precision: the condition of the bending stiffness grows as N⁴, so very fine meshes cost
+digits in any displacement solver (the dense LU solve this replaced behaved the same, and so
+does PyNiteFEA): on a 700 mm three-support shaft the reactions move from the coarsest mesh's by
+about 5e-10 (relative) at 200 elements, 5e-7 at 1000 and 3e-4 at 5000
+(``tests/benchmarks/bench_beam.py`` prints it).
 """
 from __future__ import annotations
 
@@ -33,11 +46,13 @@ from dataclasses import dataclass, fields
 from typing import Sequence
 
 import numpy as np
+from scipy.linalg import lapack
 
 from engine.model import Design, EngineError
 
-__all__ = ["Mesh", "build_mesh", "stack_meshes", "section_properties", "shear_coefficient", "assemble",
-           "bending_stiffness", "BeamSolution", "solve_bending", "solve_bending_many", "axial_and_torque"]
+__all__ = ["Mesh", "build_mesh", "build_meshes", "stack_meshes", "section_properties", "shear_coefficient",
+           "band_assemble", "band_factor", "band_solve", "band_matvec", "band_to_dense", "chain_bands", "bending_stiffness", "BeamSolution",
+           "solve_bending", "solve_bending_many", "axial_and_torque", "NOT_HELD"]
 
 
 @dataclass(frozen=True)
@@ -84,6 +99,12 @@ def shear_coefficient(nu: float, m: np.ndarray) -> np.ndarray:
 def build_mesh(design: Design, *, extra_x_mm: tuple[float, ...] = ()) -> Mesh:
     """Nodes at every segment change, support, element and groove, then each interval
     refined so that the shaft has about ``analysis.elements`` elements."""
+    return build_meshes(design, (design.analysis.elements,), extra_x_mm=extra_x_mm)[0]
+
+
+def build_meshes(design: Design, counts: Sequence[int], *, extra_x_mm: tuple[float, ...] = ()) -> list[Mesh]:
+    """:func:`build_mesh` for several target element counts from one pass over the design
+    (the solve's mesh and the coarser one of the eigenproblem share their key points)."""
     shaft = design.shaft
     edges = np.array(shaft.edges_mm())
     L = edges[-1]
@@ -91,22 +112,26 @@ def build_mesh(design: Design, *, extra_x_mm: tuple[float, ...] = ()) -> Mesh:
                            [g.x_mm for g in shaft.grooves], np.asarray(extra_x_mm, float)])
     keys = np.sort(np.round(keys[(keys >= 0) & (keys <= L)], 9))
     keys = keys[np.concatenate([[True], keys[1:] != keys[:-1]])]  # distinct, ascending
-    h = L / design.analysis.elements
     spans = np.diff(keys)
-    parts = np.maximum(1, np.ceil(spans / h - 1e-9)).astype(int)
-    # interval k in parts[k] equal steps, x = a + i·(b − a)/n, i = 0 … n−1 (numpy.linspace's
-    # arithmetic with endpoint=False, for all intervals at once), then the end of the shaft
-    i = np.arange(parts.sum(), dtype=float) - np.repeat(np.cumsum(parts) - parts, parts)
-    x = np.concatenate([i * np.repeat(spans / parts, parts) + np.repeat(keys[:-1], parts), [L]])
-    mid = 0.5 * (x[:-1] + x[1:])
-    seg = np.clip(np.searchsorted(edges, mid, side="right") - 1, 0, len(shaft.segments) - 1)
-    d = np.array([s.d_mm for s in shaft.segments])[seg]
-    bore = np.array([s.bore_mm for s in shaft.segments])[seg]
-    A, I, J = section_properties(d, bore)
-    node_of = lambda xs: np.searchsorted(x, np.round(np.asarray(xs, float), 9) - 1e-7)  # noqa: E731
-    return Mesh(x_mm=x, le_mm=np.diff(x), d_mm=d, bore_mm=bore, A_mm2=A, I_mm4=I, J_mm4=J,
-                support_nodes=node_of([s.x_mm for s in design.supports]),
-                element_nodes=node_of([e.x_mm for e in design.elements]))
+    seg_d = np.array([s.d_mm for s in shaft.segments])
+    seg_bore = np.array([s.bore_mm for s in shaft.segments])
+    sup_x = np.round(np.asarray([s.x_mm for s in design.supports], float), 9) - 1e-7
+    el_x = np.round(np.asarray([e.x_mm for e in design.elements], float), 9) - 1e-7
+    out = []
+    for count in counts:
+        h = L / count
+        parts = np.maximum(1, np.ceil(spans / h - 1e-9)).astype(int)
+        # interval k in parts[k] equal steps, x = a + i·(b − a)/n, i = 0 … n−1 (numpy.linspace's
+        # arithmetic with endpoint=False, for all intervals at once), then the end of the shaft
+        i = np.arange(parts.sum(), dtype=float) - np.repeat(np.cumsum(parts) - parts, parts)
+        x = np.concatenate([i * np.repeat(spans / parts, parts) + np.repeat(keys[:-1], parts), [L]])
+        mid = 0.5 * (x[:-1] + x[1:])
+        seg = np.clip(np.searchsorted(edges, mid, side="right") - 1, 0, len(shaft.segments) - 1)
+        d, bore = seg_d[seg], seg_bore[seg]
+        A, I, J = section_properties(d, bore)
+        out.append(Mesh(x_mm=x, le_mm=np.diff(x), d_mm=d, bore_mm=bore, A_mm2=A, I_mm4=I, J_mm4=J,
+                        support_nodes=np.searchsorted(x, sup_x), element_nodes=np.searchsorted(x, el_x)))
+    return out
 
 
 def _element_stiffness(mesh: Mesh, E: float, G: float, nu: float, shear: bool) -> np.ndarray:
@@ -118,9 +143,10 @@ def _element_stiffness(mesh: Mesh, E: float, G: float, nu: float, shear: bool) -
     Element-wise, so a stack of meshes (leading axis) gives a stack of element matrices.
     """
     L, EI = mesh.le_mm, E * mesh.I_mm4
-    if shear:
+    shear = np.asarray(shear, dtype=bool)  # one setting, or one per element
+    if shear.any():
         kappa = shear_coefficient(nu, mesh.bore_mm / mesh.d_mm)
-        phi = 12.0 * EI / (kappa * G * mesh.A_mm2 * L**2)
+        phi = np.where(shear, 12.0 * EI / (kappa * G * mesh.A_mm2 * L**2), 0.0)
     else:
         phi = np.zeros_like(L)
     c = EI / ((1.0 + phi) * L**3)
@@ -132,40 +158,97 @@ def _element_stiffness(mesh: Mesh, E: float, G: float, nu: float, shear: bool) -
     return k * c[..., None, None]
 
 
-def _dofs(n_el: int) -> np.ndarray:
-    """(n_el, 4) global DOF numbers (2 per node: deflection, slope) of each element."""
-    i = np.arange(n_el)[:, None]
-    return np.hstack([2 * i, 2 * i + 1, 2 * i + 2, 2 * i + 3])
+def band_assemble(ke: np.ndarray, starts: np.ndarray, n_dof: int) -> np.ndarray:
+    """Lower band storage (4, n_dof) of the symmetric matrix of two-node beam elements.
+
+    ``ke`` (n_el, 4, 4) element matrices over (v1, θ1, v2, θ2); ``starts`` (n_el,) the first
+    node of each element in the global numbering (DOFs 2·node, 2·node + 1). Direct stiffness
+    method, K[i, j] += kₑ[p, q], kept as ``ab[i − j, j]`` for i ≥ j (LAPACK's lower storage,
+    half-width 3). Each (p, q) touches one entry per element, so the sums are plain slices.
+    """
+    ab = np.zeros((4, n_dof))
+    col = 2 * np.asarray(starts, dtype=np.intp)
+    for p in range(4):
+        for q in range(p + 1):
+            ab[p - q, col + q] += ke[:, p, q]
+    return ab
 
 
-def assemble(ke: np.ndarray, n_nodes: int) -> np.ndarray:
-    """Global matrix (…, 2N, 2N) of a chain of two-node beam elements from their matrices
-    (…, n_el, 4, 4): K[dofᵢ, dofⱼ] += kₑ[i, j] over the elements (direct stiffness method),
-    DOF order [v0, θ0, v1, θ1, …]. Leading axes are a stack of meshes with N nodes each."""
-    lead, n_el, n = ke.shape[:-3], ke.shape[-3], 2 * n_nodes
-    dof = _dofs(n_el)
-    flat = (dof[:, :, None] * n + dof[:, None, :]).ravel()
-    B = math.prod(lead)
-    flat = (np.arange(B)[:, None] * (n * n) + flat[None, :]).ravel()
-    return np.bincount(flat, weights=ke.ravel(), minlength=B * n * n).reshape(lead + (n, n))
+def band_matvec(ab: np.ndarray, x: np.ndarray) -> np.ndarray:
+    """K·x for K symmetric in lower band storage ``ab`` (kd + 1, n), x (n,) or (n, R)."""
+    y = ab[0].reshape((-1,) + (1,) * (x.ndim - 1)) * x
+    n = ab.shape[1]
+    for k in range(1, ab.shape[0]):
+        a = ab[k, :n - k].reshape((-1,) + (1,) * (x.ndim - 1))
+        y[k:] += a * x[:n - k]
+        y[:n - k] += a * x[k:]
+    return y
+
+
+def band_to_dense(ab: np.ndarray) -> np.ndarray:
+    """The full matrix of a lower band (for inspection and tests; the engine never forms it)."""
+    n = ab.shape[1]
+    A = np.diag(ab[0])
+    for k in range(1, ab.shape[0]):
+        A += np.diag(ab[k, :n - k], -k) + np.diag(ab[k, :n - k], k)
+    return A
+
+
+def _pin(ab: np.ndarray, dofs: np.ndarray) -> None:
+    """Remove DOFs from a lower band in place: their rows and columns zero, diagonal 1 (exact
+    elimination of a rigid support, no penalty; the band keeps its width)."""
+    dofs = np.asarray(dofs, dtype=np.intp)
+    if not dofs.size:
+        return
+    for k in range(1, ab.shape[0]):
+        ab[k, dofs] = 0.0                      # column below the diagonal: K[r + k, r]
+        left = dofs - k
+        ab[k, left[left >= 0]] = 0.0           # row left of the diagonal: K[r, r − k]
+    ab[0, dofs] = 1.0
+
+
+def chain_bands(meshes: Sequence[Mesh]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Meshes laid end to end: (node offset of each mesh (B + 1,), element start nodes in the
+    joint numbering (Σ n_el,), mesh of each element (Σ n_el,)). No element joins two meshes,
+    so their bands form one block-diagonal band."""
+    n_nodes = np.array([m.n_nodes for m in meshes], dtype=np.intp)
+    off = np.concatenate([[0], np.cumsum(n_nodes)])
+    owner = np.repeat(np.arange(len(meshes)), n_nodes - 1)
+    starts = np.concatenate([off[b] + np.arange(m.n_nodes - 1) for b, m in enumerate(meshes)]) \
+        if meshes else np.zeros(0, np.intp)
+    return off, starts, owner
+
+
+def _joined(meshes: Sequence[Mesh]) -> Mesh:
+    """The element arrays of several meshes concatenated (element-wise functions take it)."""
+    cat = lambda f: np.concatenate([getattr(m, f) for m in meshes])  # noqa: E731
+    return Mesh(x_mm=cat("x_mm"), le_mm=cat("le_mm"), d_mm=cat("d_mm"), bore_mm=cat("bore_mm"),
+                A_mm2=cat("A_mm2"), I_mm4=cat("I_mm4"), J_mm4=cat("J_mm4"),
+                support_nodes=np.zeros(0, np.intp), element_nodes=np.zeros(0, np.intp))
 
 
 def stack_meshes(meshes: Sequence[Mesh]) -> Mesh:
     """Meshes with equal node, support and element counts as one :class:`Mesh` whose arrays
-    carry a leading axis (B, …); :func:`bending_stiffness` and the element-wise functions
-    take it and return stacks."""
+    carry a leading axis (B, …), for element-wise functions."""
     return Mesh(**{f.name: np.stack([getattr(m, f.name) for m in meshes]) for f in fields(Mesh)})
 
 
-def bending_stiffness(mesh: Mesh, *, E_MPa: float, G_MPa: float, shear: bool) -> tuple[np.ndarray, np.ndarray]:
-    """Global bending stiffness (2N, 2N) and the element matrices (n_el, 4, 4).
+def _element_matrices(designs: Sequence[Design], meshes: Sequence[Mesh], owner: np.ndarray) -> np.ndarray:
+    """Timoshenko element matrices (Σ n_el, 4, 4) of several designs, each with its material
+    and shear setting, evaluated once over all their elements."""
+    joined = _joined(meshes)
+    E = np.array([d.shaft.material.E_GPa * 1e3 for d in designs])[owner]
+    G = np.array([d.shaft.material.G_GPa * 1e3 for d in designs])[owner]
+    shear = np.array([d.analysis.shear_deformation for d in designs], dtype=bool)[owner]
+    return _element_stiffness(joined, E, G, E / (2.0 * G) - 1.0, shear)
 
-    DOF order: [v0, θ0, v1, θ1, …]. Both transverse planes use this matrix. For a stack of
-    meshes (:func:`stack_meshes`) both carry its leading axis.
-    """
+
+def bending_stiffness(mesh: Mesh, *, E_MPa: float, G_MPa: float, shear: bool) -> tuple[np.ndarray, np.ndarray]:
+    """Global bending stiffness of one mesh in lower band storage (4, 2N) and the element
+    matrices (n_el, 4, 4). DOF order [v0, θ0, v1, θ1, …]; both transverse planes use it."""
     nu = E_MPa / (2.0 * G_MPa) - 1.0
     ke = _element_stiffness(mesh, E_MPa, G_MPa, nu, shear)
-    return assemble(ke, mesh.n_nodes), ke
+    return band_assemble(ke, np.arange(mesh.n_nodes - 1), 2 * mesh.n_nodes), ke
 
 
 @dataclass(frozen=True)
@@ -185,11 +268,11 @@ class BeamSolution:
 
 
 def _load_vectors(mesh: Mesh, F_nodal: np.ndarray, q_N_per_mm3: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Consistent element loads of the weight, fe (…, nc, 2, n_el, 4) = [qL/2, qL²/12, qL/2, −qL²/12]
+    """Consistent element loads of the weight, fe (nc, 2, n_el, 4) = [qL/2, qL²/12, qL/2, −qL²/12]
     with q = weight density × element area [N/mm], and the nodal load vectors F_nodal + fe
-    assembled, (…, nc, 2, N, 2). Leading axes: a stack of meshes (F_nodal, q with the same)."""
-    L = mesh.le_mm[..., None, None, :]
-    q = q_N_per_mm3[..., None] * mesh.A_mm2[..., None, None, :]  # (…, nc, 2, n_el) N/mm
+    assembled, (nc, 2, N, 2)."""
+    L = mesh.le_mm[None, None, :]
+    q = q_N_per_mm3[..., None] * mesh.A_mm2[None, None, :]  # (nc, 2, n_el) N/mm
     fe = np.stack([q * L / 2, q * L**2 / 12, q * L / 2, -q * L**2 / 12], axis=-1)
     f = F_nodal.copy()
     f[..., :-1, :] += fe[..., :2]
@@ -197,181 +280,122 @@ def _load_vectors(mesh: Mesh, F_nodal: np.ndarray, q_N_per_mm3: np.ndarray) -> t
     return fe, f
 
 
-def solve_bending(design: Design, mesh: Mesh, F_nodal: np.ndarray, q_N_per_mm3: np.ndarray) -> BeamSolution:
-    """Solve K·u = f for every load case and both planes at once.
-
-    F_nodal: (n_cases, 2, N, 2) nodal forces and couples [N, N·mm] in each plane's own DOFs
-    (x–y plane: Fy and Cz; x–z plane: Fz and −Cy). q_N_per_mm3: (n_cases, 2) weight density
-    [N/mm³] along y and z; times each element's area it is a uniform line load, applied as the consistent load of every element: [qL/2, qL²/12, qL/2, −qL²/12].
-    """
-    mat = design.shaft.material
-    K, ke = bending_stiffness(mesh, E_MPa=mat.E_GPa * 1e3, G_MPa=mat.G_GPa * 1e3,
-                              shear=design.analysis.shear_deformation)
-    n_cases, N = F_nodal.shape[0], mesh.n_nodes
-    dof = _dofs(mesh.le_mm.size)
-    fe, f = _load_vectors(mesh, F_nodal, q_N_per_mm3)
-    f = f.reshape(n_cases, 2, 2 * N)
-
-    Kt = K.copy()
-    rigid: list[int] = []
-    for s, node in zip(design.supports, mesh.support_nodes):
-        if s.radial_stiffness_N_per_mm is None:
-            rigid.append(2 * node)
-        else:
-            Kt[2 * node, 2 * node] += s.radial_stiffness_N_per_mm
-    rhs = f.reshape(-1, 2 * N).T.copy()  # (2N, nc*2)
-    # rigid supports: the constrained rows and columns become identity rows (exact, no penalty)
-    Kt[rigid, :] = 0.0
-    Kt[:, rigid] = 0.0
-    Kt[rigid, rigid] = 1.0
-    rhs_free = rhs.copy()
-    rhs_free[rigid] = 0.0
-    try:
-        u = np.linalg.solve(Kt, rhs_free)
-    except np.linalg.LinAlgError:
-        raise EngineError.at("supports", "the supports do not hold the shaft: it can move as a rigid body") from None
-    reac_all = K @ u - rhs  # force from supports on the shaft at every DOF
-    u = u.T.reshape(n_cases, 2, 2 * N)
-    reac_all = reac_all.T.reshape(n_cases, 2, 2 * N)
-    R = np.empty((n_cases, 2, len(design.supports)))
-    for j, (s, node) in enumerate(zip(design.supports, mesh.support_nodes)):
-        if s.radial_stiffness_N_per_mm is None:
-            R[:, :, j] = reac_all[:, :, 2 * node]
-        else:
-            R[:, :, j] = -s.radial_stiffness_N_per_mm * u[:, :, 2 * node]
-    # element end forces on each element: k·u_e − consistent load
-    ue = u[:, :, dof]  # (nc, 2, n_el, 4)
-    end = np.einsum("eij,cpej->cpei", ke, ue) - fe
-    V = np.stack([end[..., 0], -end[..., 2]], axis=-1)
-    M = np.stack([-end[..., 1], end[..., 3]], axis=-1)
-    return BeamSolution(u_mm=u[:, :, 0::2], slope_rad=u[:, :, 1::2], V_N=V, M_Nmm=M, R_N=R)
+NOT_HELD = "the supports do not hold the shaft: it can move as a rigid body"
+# a Cholesky pivot below this share of its diagonal entry: the matrix is singular to working
+# precision (a mechanism), not merely flexible (common practice for a singularity test)
+_PIVOT_MIN = 1e-13
 
 
-# --- many designs at once ----------------------------------------------------------------------
-#
-# A study's variant differs from the next only in a few numbers, and the bending problem of each is
-# block-tridiagonal (two DOFs per node, elements joining neighbours). Solving every variant of
-# a study at once by block elimination (numpy operations over the variants and the load cases,
-# one Python step per node) costs a few milliseconds for hundreds of variants, where one dense
-# LAPACK solve per variant costs 0.5 ms on an idle core and several on a busy one. The element
-# matrices and load vectors are those of solve_bending (same functions); the support
-# conditions (rigid: the DOF removed, elastic: a spring on the diagonal) and the reactions
-# follow engine.beam.solve_bending step by step, so the results agree with it to rounding.
-
-def _inv2(A: np.ndarray) -> np.ndarray:
-    """Inverse of a stack of 2×2 matrices (…, 2, 2) by the adjugate."""
-    a, b, c, d = A[..., 0, 0], A[..., 0, 1], A[..., 1, 0], A[..., 1, 1]
-    det = a * d - b * c
-    out = np.empty_like(A)
-    out[..., 0, 0], out[..., 0, 1], out[..., 1, 0], out[..., 1, 1] = d, -b, -c, a
-    return out / det[..., None, None]
+def _support_split(design: Design, mesh: Mesh) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Rigid support nodes, elastic support nodes and their stiffnesses [N/mm]."""
+    rigid = [int(n) for s, n in zip(design.supports, mesh.support_nodes) if s.radial_stiffness_N_per_mm is None]
+    el = [(int(n), s.radial_stiffness_N_per_mm) for s, n in zip(design.supports, mesh.support_nodes)
+          if s.radial_stiffness_N_per_mm is not None]
+    return (np.array(rigid, np.intp), np.array([n for n, _ in el], np.intp),
+            np.array([k for _, k in el], float))
 
 
-def _block_tridiagonal_solve(Dg: np.ndarray, Up: np.ndarray, Lo: np.ndarray, f: np.ndarray) -> np.ndarray:
-    """Solve a batch of symmetric positive definite block-tridiagonal systems (block LU, no pivoting).
+def band_factor(ab: np.ndarray, off: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Banded Cholesky factor of a chain of bands (LAPACK ``dpbtrf``), and for each block
+    (``off``: DOF offsets, B + 1) whether it is positive definite to working precision.
+    A block that is not has its band replaced by the identity so the others still factor."""
+    ab = ab.copy()
+    bad = np.zeros(off.size - 1, dtype=bool)
+    while True:
+        c, info = lapack.dpbtrf(ab, lower=1)
+        if info == 0:
+            piv = c[0] ** 2 / np.where(ab[0] > 0, ab[0], 1.0)
+            weak = np.flatnonzero(piv < _PIVOT_MIN)
+            if not weak.size:
+                return c, bad
+            blocks = np.unique(np.searchsorted(off, weak, side="right") - 1)
+        elif info > 0:
+            blocks = np.array([np.searchsorted(off, info - 1, side="right") - 1])
+        else:  # pragma: no cover - an argument error is a programming error
+            raise ValueError(f"dpbtrf argument {-info} is invalid")
+        for b in blocks:
+            bad[b] = True
+            ab[:, off[b]:off[b + 1]] = 0.0
+            ab[0, off[b]:off[b + 1]] = 1.0
 
-    Dg (B, N, 2, 2) diagonal blocks, Up (B, N−1, 2, 2) blocks right of the diagonal (row i,
-    column i+1), Lo (B, N−1, 2, 2) blocks left of it (row i+1, column i), f (B, N, 2, R).
-    Golub & Van Loan, *Matrix Computations*, 4th ed., §4.5.1 (block tridiagonal LU).
-    """
-    B, N = Dg.shape[:2]
-    Cp = np.empty((B, N - 1, 2, 2))
-    dp = np.empty_like(f)
-    Minv = _inv2(Dg[:, 0])
-    Cp[:, 0] = Minv @ Up[:, 0]
-    dp[:, 0] = Minv @ f[:, 0]
-    for i in range(1, N):
-        Li = Lo[:, i - 1]
-        Minv = _inv2(Dg[:, i] - Li @ Cp[:, i - 1])
-        if i < N - 1:
-            Cp[:, i] = Minv @ Up[:, i]
-        dp[:, i] = Minv @ (f[:, i] - Li @ dp[:, i - 1])
-    x = np.empty_like(f)
-    x[:, N - 1] = dp[:, N - 1]
-    for i in range(N - 2, -1, -1):
-        x[:, i] = dp[:, i] - Cp[:, i] @ x[:, i + 1]
+
+def band_solve(c: np.ndarray, Z: np.ndarray) -> np.ndarray:
+    """K⁻¹·Z from the banded Cholesky factor ``c`` of :func:`band_factor` (LAPACK ``dpbtrs``)."""
+    x, info = lapack.dpbtrs(c, Z, lower=1)
+    if info != 0:  # pragma: no cover - the factor is valid by construction
+        raise ValueError(f"dpbtrs argument {-info} is invalid")
     return x
 
 
 def solve_bending_many(designs: Sequence[Design], meshes: Sequence[Mesh], F_nodal: Sequence[np.ndarray],
-                       q_N_per_mm3: Sequence[np.ndarray]) -> list[BeamSolution]:
-    """:func:`solve_bending` for many designs at once (a study's variants); one BeamSolution each.
+                       q_N_per_mm3: Sequence[np.ndarray]) -> list[BeamSolution | EngineError]:
+    """Solve K·u = f of many designs, every load case and both planes, by one banded solve.
 
-    Arguments per design as for :func:`solve_bending`. Designs with the same node, support
-    and load-case counts, material and shear setting are solved together by block-tridiagonal
-    elimination (:func:`_block_tridiagonal_solve`); the results agree with
-    :func:`solve_bending` to rounding (a different elimination order, 1e-12 relative here).
-    Raises EngineError, as solve_bending does, when the supports of a design do not hold it.
+    Per design: ``F_nodal`` (n_cases, 2, N, 2) nodal forces and couples [N, N·mm] in each
+    plane's own DOFs (x–y plane: Fy and Cz; x–z plane: Fz and −Cy); ``q_N_per_mm3`` (n_cases, 2)
+    weight density [N/mm³] along y and z, applied as the consistent load of every element
+    [qL/2, qL²/12, qL/2, −qL²/12]. The designs' bands are laid end to end (:func:`chain_bands`)
+    and the right-hand sides side by side (zero columns where a design has fewer cases), so
+    all are factored and solved at once; one BeamSolution each, or an EngineError for a design
+    whose supports do not hold it.
     """
-    out: list[BeamSolution | None] = [None] * len(designs)
-    groups: dict[tuple, list[int]] = {}
-    for k, (d, m) in enumerate(zip(designs, meshes)):
-        mat = d.shaft.material
-        key = (m.n_nodes, m.support_nodes.size, m.element_nodes.size, F_nodal[k].shape[0],
-               mat.E_GPa, mat.G_GPa, d.analysis.shear_deformation)
-        groups.setdefault(key, []).append(k)
-    for (N, _, _, nc, E_GPa, G_GPa, shear), ks in groups.items():
-        B, n_el = len(ks), N - 1
-        E, G = E_GPa * 1e3, G_GPa * 1e3
-        stack = stack_meshes([meshes[k] for k in ks])
-        ke = _element_stiffness(stack, E, G, E / (2.0 * G) - 1.0, shear)  # (B, n_el, 4, 4)
-        fe, f = _load_vectors(stack, np.stack([F_nodal[k] for k in ks]), np.stack([q_N_per_mm3[k] for k in ks]))
-        # blocks of the assembled stiffness (the same for both planes)
-        Dg = np.zeros((B, N, 2, 2))
-        Dg[:, :-1] += ke[:, :, :2, :2]
-        Dg[:, 1:] += ke[:, :, 2:, 2:]
-        Up = ke[:, :, :2, 2:].copy()
-        Lo = ke[:, :, 2:, :2].copy()
-        D0, U0, L0 = Dg.copy(), Up.copy(), Lo.copy()
-        rhs = np.moveaxis(f, 3, 1).reshape(B, N, nc * 2, 2).transpose(0, 1, 3, 2).copy()  # (B, N, 2, R)
-        rhs_orig = rhs.copy()
-        rb, rn, eb, en, ek = [], [], [], [], []  # rigid (variant, node); elastic (variant, node, k)
-        for b, k in enumerate(ks):
-            for sup, node in zip(designs[k].supports, meshes[k].support_nodes):
-                if sup.radial_stiffness_N_per_mm is None:
-                    rb.append(b), rn.append(int(node))
-                else:
-                    eb.append(b), en.append(int(node)), ek.append(sup.radial_stiffness_N_per_mm)
-        rb, rn = np.array(rb, int), np.array(rn, int)
-        if rb.size:
-            Dg[rb, rn, 0, :] = 0.0
-            Dg[rb, rn, :, 0] = 0.0
-            Dg[rb, rn, 0, 0] = 1.0
-            m = rn < N - 1
-            Up[rb[m], rn[m], 0, :] = 0.0
-            Lo[rb[m], rn[m], :, 0] = 0.0
-            m = rn > 0
-            Up[rb[m], rn[m] - 1, :, 0] = 0.0
-            Lo[rb[m], rn[m] - 1, 0, :] = 0.0
-            rhs[rb, rn, 0, :] = 0.0
-        if eb:
-            np.add.at(Dg, (np.array(eb), np.array(en), 0, 0), np.array(ek))
-        with np.errstate(divide="ignore", invalid="ignore"):
-            u = _block_tridiagonal_solve(Dg, Up, Lo, rhs)  # (B, N, 2, R)
-        # reactions with the unmodified stiffness: (K u − f) at each support's deflection DOF
-        Ku = D0 @ u
-        Ku[:, :-1] += U0 @ u[:, 1:]
-        Ku[:, 1:] += L0 @ u[:, :-1]
-        reac = Ku - rhs_orig
-        u_c = u.transpose(0, 3, 1, 2).reshape(B, nc, 2, N, 2)  # (B, nc, plane, node, dof)
-        r_c = reac.transpose(0, 3, 1, 2).reshape(B, nc, 2, N, 2)
-        flat = u_c.reshape(B, nc, 2, 2 * N)
-        ue = flat[:, :, :, _dofs(n_el)]  # (B, nc, 2, n_el, 4)
-        end = (ke[:, None, None] @ ue[..., None])[..., 0] - fe  # k·u_e − consistent load, per element
+    B = len(designs)
+    if not B:
+        return []
+    off, starts, owner = chain_bands(meshes)
+    dof_off = 2 * off
+    n_dof = int(dof_off[-1])
+    ke = _element_matrices(designs, meshes, owner)
+    K0 = band_assemble(ke, starts, n_dof)
+    R = 2 * max(F.shape[0] for F in F_nodal)
+    rhs = np.zeros((n_dof, R))
+    fes, rigid_all = [], []
+    Kt = K0.copy()
+    for b, (d, m) in enumerate(zip(designs, meshes)):
+        fe, f = _load_vectors(m, F_nodal[b], q_N_per_mm3[b])
+        fes.append(fe)
+        nc = f.shape[0]
+        rhs[dof_off[b]:dof_off[b + 1], :2 * nc] = f.reshape(2 * nc, 2 * m.n_nodes).T
+        rigid, elastic, k = _support_split(d, m)
+        rigid_all.append(dof_off[b] + 2 * rigid)
+        Kt[0, dof_off[b] + 2 * elastic] += k
+    K0s = Kt.copy()  # with the springs, before the rigid DOFs are removed (reactions use it)
+    rigid = np.concatenate(rigid_all) if rigid_all else np.zeros(0, np.intp)
+    _pin(Kt, rigid)
+    rhs_free = rhs.copy()
+    rhs_free[rigid] = 0.0
+    c, bad = band_factor(Kt, dof_off)
+    u = band_solve(c, rhs_free)
+    reac = band_matvec(K0s, u) - rhs  # force from the supports (and springs) on the shaft at every DOF
+    out: list[BeamSolution | EngineError] = []
+    for b, (d, m) in enumerate(zip(designs, meshes)):
+        if bad[b]:
+            out.append(EngineError.at("supports", NOT_HELD))
+            continue
+        nc, N = F_nodal[b].shape[0], m.n_nodes
+        ub = u[dof_off[b]:dof_off[b + 1], :2 * nc].T.reshape(nc, 2, 2 * N)
+        rb = reac[dof_off[b]:dof_off[b + 1], :2 * nc].T.reshape(nc, 2, 2 * N)
+        Rb = rb[:, :, 2 * np.asarray(m.support_nodes, np.intp)].copy()
+        for j, s in enumerate(d.supports):  # a spring's force on the shaft: −k·u
+            if s.radial_stiffness_N_per_mm is not None:
+                Rb[:, :, j] = -s.radial_stiffness_N_per_mm * ub[:, :, 2 * int(m.support_nodes[j])]
+        e0 = np.searchsorted(owner, b)
+        kb = ke[e0:e0 + N - 1]
+        ue = np.stack([ub[:, :, 0:-2:2], ub[:, :, 1:-2:2], ub[:, :, 2::2], ub[:, :, 3::2]], axis=-1)
+        end = np.einsum("eij,cpej->cpei", kb, ue) - fes[b]  # k·u_e − consistent load, per element
         V = np.stack([end[..., 0], -end[..., 2]], axis=-1)
         M = np.stack([-end[..., 1], end[..., 3]], axis=-1)
-        finite = np.isfinite(flat).all(axis=(1, 2, 3))
-        for b, k in enumerate(ks):
-            if not finite[b]:
-                raise EngineError.at("supports", "the supports do not hold the shaft: it can move as a rigid body")
-            d, m = designs[k], meshes[k]
-            nodes = np.asarray(m.support_nodes, int)
-            R = r_c[b][:, :, nodes, 0].copy()  # (nc, 2, n_supports)
-            for j, sup in enumerate(d.supports):
-                if sup.radial_stiffness_N_per_mm is not None:
-                    R[:, :, j] = -sup.radial_stiffness_N_per_mm * u_c[b][:, :, nodes[j], 0]
-            out[k] = BeamSolution(u_mm=flat[b][:, :, 0::2], slope_rad=flat[b][:, :, 1::2], V_N=V[b], M_Nmm=M[b], R_N=R)
-    return out  # type: ignore[return-value]
+        out.append(BeamSolution(u_mm=ub[:, :, 0::2], slope_rad=ub[:, :, 1::2], V_N=V, M_Nmm=M, R_N=Rb))
+    return out
+
+
+def solve_bending(design: Design, mesh: Mesh, F_nodal: np.ndarray, q_N_per_mm3: np.ndarray) -> BeamSolution:
+    """:func:`solve_bending_many` of one design; raises its EngineError when the supports do
+    not hold the shaft."""
+    sol = solve_bending_many([design], [mesh], [F_nodal], [q_N_per_mm3])[0]
+    if isinstance(sol, EngineError):
+        raise sol
+    return sol
 
 
 def axial_and_torque(mesh: Mesh, x_load_mm: np.ndarray, Fx_N: np.ndarray, T_Nmm: np.ndarray,
@@ -383,9 +407,13 @@ def axial_and_torque(mesh: Mesh, x_load_mm: np.ndarray, Fx_N: np.ndarray, T_Nmm:
     at a node counts as left of the element that starts there. N = −Σ_left Fx, T = Σ_left T.
     """
     starts = mesh.x_mm[:-1]
-    left = (x_load_mm[None, :] <= starts[:, None] + 1e-9).astype(float)  # (n_el, n_loads)
-    N = -(Fx_N @ left.T)
-    T = T_Nmm @ left.T
+    # running sums over the loads in order of x, read at each element start: O(N + loads)
+    order = np.argsort(x_load_mm, kind="stable")
+    xs = np.asarray(x_load_mm, float)[order]
+    count = np.searchsorted(xs, starts + 1e-9, side="right")  # loads at or left of each start
+    zero = np.zeros((Fx_N.shape[0], 1))
+    N = -np.concatenate([zero, np.cumsum(Fx_N[:, order], axis=1)], axis=1)[:, count]
+    T = np.concatenate([zero, np.cumsum(T_Nmm[:, order], axis=1)], axis=1)[:, count]
     # distributed axial weight: value at each element's mid-point
     cum = np.concatenate([[0.0], np.cumsum(mesh.A_mm2 * mesh.le_mm)])  # volume from the left end
     vol_mid = 0.5 * (cum[:-1] + cum[1:])

@@ -424,6 +424,7 @@ def shaft_checks(a, *, modes: dynamics.LateralModes | None = None, min_diameter:
 
     # dynamics ------------------------------------------------------------------------------
     try:
+        modes = modes if modes is not None else getattr(a, "modes", None)  # solved with the batch
         modes = dynamics.lateral_frequencies(design, n_modes=3) if modes is None else modes
         freqs = [float(v) for v in modes.rpm if np.isfinite(v)]
         rayleigh = modes.rayleigh_rpm if freqs else None

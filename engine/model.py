@@ -52,10 +52,12 @@ def _not_tiny(v: float) -> float:
 Num = Annotated[float, Field(ge=-BIG, le=BIG)]
 
 # Counts far beyond any real arrangement, small enough that one design cannot tie the solver
-# up: the bending solve is dense in the node count, and the diagrams grow with cases × nodes.
-# At these limits, with analysis.elements = 2000, a solve takes about 10 s and 0.7 GB here;
-# without them 500 bearings and 500 load cases took 50 s and 3 GB.
+# up: the banded solve is linear in the node count, and the diagrams grow with cases × nodes.
+# Without these limits 500 bearings and 500 load cases took 50 s and 3 GB.
 MAX_SEGMENTS, MAX_GROOVES, MAX_SUPPORTS, MAX_ELEMENTS, MAX_LOAD_CASES = 500, 200, 50, 200, 100
+# analysis.elements: the banded solver is O(N) in time and memory (engine/beam.py), so the cap
+# is set by the diagrams the page draws, not by the solve (was 2000 with the dense solve)
+MAX_MESH_ELEMENTS = 20_000
 Pos = Annotated[float, Field(gt=0, le=BIG), AfterValidator(_not_tiny)]
 NonNeg = Annotated[float, Field(ge=0, le=BIG)]
 
@@ -344,7 +346,7 @@ class Gravity(_Doc):
 class Analysis(_Doc):
     """Solver settings: element count and whether shear deformation is included."""
 
-    elements: Annotated[int, Field(ge=10, le=2000)] = 120
+    elements: Annotated[int, Field(ge=10, le=MAX_MESH_ELEMENTS)] = 120
     shear_deformation: bool = True
 
 

@@ -9,7 +9,8 @@ parse_variable       a variable path (``supports.B.x_mm``) -> :class:`Variable`,
 parse_values         a range ``start:stop:count`` or a list of values -> tuple of values
 parse_study          design + ``["supports.B.x_mm=300:500:21", ...]`` -> :class:`Study`
 apply_values         a design mapping with the study's variables set to given values
-run_study            solve every variant -> :class:`StudyResult` (figures per variant)
+iter_study           solve the variants chunk by chunk (engine.solve_many), yielding figures; stoppable
+run_study            every variant -> :class:`StudyResult` (figures per variant), with progress and stop
 arrangement_design   a design mapping with one of :data:`ARRANGEMENTS` applied
 compare_arrangements every arrangement of :data:`ARRANGEMENTS` solved and ranked
 
@@ -34,29 +35,22 @@ safety factor of the shaft checks, the largest slope at a bearing over the load 
 first lateral critical speed. A variant *meets every requirement* when no check fails and
 each held bearing meets the life, static-safety and speed requirements.
 
-The variants are solved by :func:`engine.solve` itself (``diagrams=False``), so a variant at
-the current value reproduces the plain solve exactly, whatever the engine computes. The
-batched path (the default once it reproduces the plain solve at the current design) runs the
-same engine functions over all variants at once where they take a leading variant axis: the
-bending (:func:`engine.beam.solve_bending_many`), the lateral modes
-(:func:`engine.dynamics.lateral_frequencies_many`, first mode only: the figures show the
-critical speed), the shoulder factors (:func:`engine.checks.shoulder_kt`) and the held
-bearings' screen (:func:`engine.bearings.candidates.screen_rows`); then each variant's shaft
-checks (:func:`engine.checks.shaft_checks`, without the minimum-diameter figure). Its figures
-agree with the plain solve to 1e-9 relative.
+The variants are solved by :func:`engine.solve_many` (``diagrams=False``), the engine's one
+path, in chunks of :data:`CHUNK` variants (the solver's memory stays that of one chunk), so a
+variant at the current value reproduces the plain solve exactly, whatever the engine computes.
+This module holds the study's logic only: variables, ranges, figures and feasibility.
+:func:`iter_study` hands the figures over chunk by chunk (for progress and streaming) and
+stops when asked; :func:`run_study` collects them.
 """
 from __future__ import annotations
 
 import math
 import re
-from typing import Any, Iterable, Literal, Sequence
+from typing import Any, Callable, Iterable, Iterator, Literal, Sequence
 
 import numpy as np
 from pydantic import BaseModel, ConfigDict
 
-from engine import dynamics
-from engine.beam import solve_bending_many
-from engine.checks import shoulder_kt
 from engine.model import BEARING_TYPES, Design, DesignError, Issue, parse_design
 from engine.result import Result
 
@@ -64,12 +58,13 @@ __all__ = [
     "MAX_VARIANTS", "MAX_VALUES", "ARRANGEMENTS", "Arrangement", "Variable", "Study",
     "BearingFigure", "VariantFigures", "StudyResult", "ArrangementBearing", "ArrangementOption",
     "ArrangementComparison", "parse_variable", "parse_values", "parse_study", "apply_values",
-    "figures_of", "run_study", "arrangement_design", "arrangement_label", "compare_arrangements",
-    "batched_bending", "batched_analyses",
+    "figures_of", "iter_study", "run_study", "arrangement_design", "arrangement_label", "compare_arrangements",
+    "CHUNK", "STOPPED", "StudyStart",
 ]
 
-MAX_VALUES = 400      # values of one variable
-MAX_VARIANTS = 2500   # variants of a study (a 50 × 50 map); keeps a request within seconds
+MAX_VALUES = 400       # values of one variable
+MAX_VARIANTS = 20_000  # variants of a study (a 140 × 140 map); solved in chunks, streamed
+CHUNK = 250            # variants solved together by engine.solve_many
 
 _ERR_PATH = "vary"
 
@@ -374,7 +369,15 @@ class Study(_Frozen):
     def n_variants(self) -> int:
         return int(np.prod(self.shape))
 
+    def combination(self, k: int) -> tuple:
+        """The values of variant k (the last variable fastest)."""
+        if len(self.values) == 1:
+            return (self.values[0][k],)
+        i, j = divmod(k, len(self.values[1]))
+        return (self.values[0][i], self.values[1][j])
+
     def combinations(self) -> list[tuple]:
+        """The values of every variant, in variant order (computed once per call)."""
         if len(self.values) == 1:
             return [(v,) for v in self.values[0]]
         return [(a, b) for a in self.values[0] for b in self.values[1]]
@@ -494,7 +497,8 @@ class StudyResult(_Frozen):
     variants: list[VariantFigures]
     requirements: dict[str, float] = {}
     elapsed_s: float = 0.0
-    method: str = "solve"
+    solved: int = 0                  # variants solved (all of them unless the study was stopped)
+    stopped: bool = False            # stopped on request; the rest carry a note and no figures
 
     def series(self, name: str) -> list[float | None]:
         """One figure over the variants, in variant order (``min_life_h``, ``safety_factor``,
@@ -582,103 +586,101 @@ def _held(result: Result) -> dict[str, str]:
     return {b.id: b.candidates[0].designation for b in result.bearings if b.candidates}
 
 
-def _fault(exc: Exception) -> DesignError:
-    """An engine fault on one variant, as a message (the study goes on)."""
-    return DesignError([Issue(path="", message=f"the engine could not solve this variant "
-                                               f"({type(exc).__name__}: {exc})")])
-
-
 def _message(exc: DesignError) -> str:
     return "; ".join(f"{e.path}: {e.message}" if e.path else e.message for e in exc.errors)
 
 
-def _cat(catalogue: Any) -> dict[str, Any]:
-    """``catalogue=`` for engine.solve only when a table is given (solve's default otherwise)."""
-    return {} if catalogue is None else {"catalogue": catalogue}
-
-
-class _Subset:
-    """The combinations of a study restricted to some variant indices (for the batched path)."""
-
-    def __init__(self, study: Study, ks: list[int]):
-        self._all, self._ks = study.combinations(), ks
-
-    def combinations(self) -> list[tuple]:
-        return [self._all[k] for k in self._ks]
-
-
-def run_study(design: Any, study: Study | Sequence[Any], *,
-              method: Literal["auto", "solve", "batched"] = "auto", catalogue: Any = None) -> StudyResult:
-    """Solve every variant of ``study`` (or of ``vary`` items, see :func:`parse_study`).
-
-    ``method``: ``solve`` calls :func:`engine.solve` for each variant; ``batched`` solves the
-    bending of all variants at once (:func:`batched_analyses`) and then rates the bearings
-    and checks the shaft of each as solve() does; ``auto`` (default) takes the batched path
-    when it reproduces the plain solve at the current design (to 1e-9), else ``solve``.
-
-    A variant the engine refuses (e.g. a support moved onto another) carries the engine's
-    message in ``error`` and no figures; the study itself goes on.
-    """
-    import time
-
+def _variant_figures(data: dict, study: Study, ks: range, held: dict[str, str],
+                     catalogue: Any) -> list[VariantFigures]:
+    """The figures of variants ``ks``: each design built and checked, all solved together
+    by :func:`engine.solve_many`; a variant the engine refuses carries its message."""
     import engine
 
-    t0 = time.perf_counter()
+    out: list[VariantFigures | None] = [None] * len(ks)
+    designs, where = [], []
+    for i, k in enumerate(ks):
+        try:
+            designs.append(parse_design(apply_values(data, study, study.combination(k))))
+            where.append(i)
+        except DesignError as exc:
+            out[i] = VariantFigures(values=study.combination(k), error=_message(exc), ok=False)
+    results = engine.solve_many(designs, diagrams=False, catalogue=catalogue)
+    for i, d, r in zip(where, designs, results):
+        vals = study.combination(ks[i])
+        out[i] = (VariantFigures(values=vals, error=_message(r), ok=False) if isinstance(r, DesignError)
+                  else figures_of(d, r, held=held, values=vals))
+    return out  # type: ignore[return-value]
+
+
+class StudyStart(_Frozen):
+    """What :func:`iter_study` yields first: the study, the current design's figures and the
+    bearings the variants follow."""
+
+    study: Study
+    base: VariantFigures
+    held: dict[str, str]
+    requirements: dict[str, float]
+
+
+def iter_study(design: Any, study: Study | Sequence[Any], *, catalogue: Any = None, chunk: int = CHUNK,
+               stop: Callable[[], bool] | None = None) -> Iterator[StudyStart | list[VariantFigures]]:
+    """Solve the variants of ``study`` chunk by chunk: first a :class:`StudyStart`, then one
+    list of :class:`VariantFigures` per chunk of ``chunk`` variants, in variant order. Before
+    each chunk ``stop()`` is asked; when it answers True the iteration ends there. Bad input
+    (the design, a variable, a range) raises DesignError before anything is solved."""
     design = parse_design(design)
     if not isinstance(study, Study):
         study = parse_study(design, study)
-    base_result = engine.solve(design, diagrams=False, **_cat(catalogue))
+    import engine
+
+    base_result = engine.solve(design, diagrams=False, **({} if catalogue is None else {"catalogue": catalogue}))
     held = _held(base_result)
-    base_values = tuple(v.current for v in study.variables)
-    base = figures_of(design, base_result, held=held, values=base_values)
-    data = design.model_dump(mode="json", exclude_none=False)
-    variants: list[VariantFigures | None] = [None] * study.n_variants
-    designs: list[tuple[int, Design]] = []
-    for k, vals in enumerate(study.combinations()):
-        try:
-            designs.append((k, parse_design(apply_values(data, study, vals))))
-        except DesignError as exc:
-            variants[k] = VariantFigures(values=vals, error=_message(exc), ok=False)
-    used = "solve"
-    if method in ("auto", "batched") and designs:
-        # the batched path is used when it reproduces the plain solve at the current design
-        try:
-            check = _batched_figures([design], Study(variables=study.variables, values=tuple((v,) for v in base_values)),
-                                     held, None, catalogue=catalogue)[0]
-            agrees = isinstance(check, VariantFigures) and _same(check, base)
-        except Exception:  # a layer not wired as the batched path expects: fall back
-            agrees = False
-        if agrees or method == "batched":
-            used = "batched"
-            sub = Study(variables=study.variables, values=study.values)
-            base_loads = None
-            if _loads_unchanged(study):
-                from engine.loads import case_loads
-                base_loads = [case_loads(design, c) for c in design.load_cases]
-            fast_b = not any(v.kind == "choice" for v in study.variables)
-            figs = _batched_figures([d for _, d in designs], _Subset(sub, [k for k, _ in designs]), held, base_loads,
-                                    fast_bearings=fast_b, catalogue=catalogue)
-            for (k, _), f in zip(designs, figs):
-                variants[k] = (f.model_copy(update={"values": study.combinations()[k]}) if isinstance(f, VariantFigures)
-                               else VariantFigures(values=study.combinations()[k], error=_message(f), ok=False))
-    if used == "solve":
-        for k, vd in designs:
-            vals = study.combinations()[k]
-            try:
-                res = engine.solve(vd, diagrams=False, **_cat(catalogue))
-                variants[k] = figures_of(vd, res, held=held, values=vals)
-            except DesignError as exc:
-                variants[k] = VariantFigures(values=vals, error=_message(exc), ok=False)
-            except (ArithmeticError, ValueError, IndexError, np.linalg.LinAlgError) as exc:
-                variants[k] = VariantFigures(values=vals, error=_message(_fault(exc)), ok=False)
     req = design.requirements
+    yield StudyStart(study=study, held=held,
+                     base=figures_of(design, base_result, held=held,
+                                     values=tuple(v.current for v in study.variables)),
+                     requirements={"life_h": req.life_h, "s0_min": req.s0_min,
+                                   "fatigue_safety_min": req.fatigue_safety_min,
+                                   "critical_speed_margin_pct": req.critical_speed_margin_pct})
+    data = design.model_dump(mode="json", exclude_none=False)
+    n = study.n_variants
+    for lo in range(0, n, max(1, chunk)):
+        if stop is not None and stop():
+            return
+        yield _variant_figures(data, study, range(lo, min(n, lo + chunk)), held, catalogue)
+
+
+STOPPED = "not solved: the study was stopped before this variant"
+
+
+def run_study(design: Any, study: Study | Sequence[Any], *, catalogue: Any = None,
+              progress: Callable[[int, int], None] | None = None,
+              stop: Callable[[], bool] | None = None, chunk: int = CHUNK) -> StudyResult:
+    """Solve every variant of ``study`` (or of ``vary`` items, see :func:`parse_study`).
+
+    ``progress(done, total)`` is called after each chunk; ``stop()`` before each (True ends
+    the study: the variants not solved carry the note :data:`STOPPED`). A variant the engine
+    refuses (e.g. a support moved onto another) carries the engine's message in ``error`` and
+    no figures; the study itself goes on.
+    """
+    import time
+
+    t0 = time.perf_counter()
+    it = iter_study(design, study, catalogue=catalogue, chunk=chunk, stop=stop)
+    start = next(it)
+    study = start.study
+    variants: list[VariantFigures] = []
+    for part in it:
+        variants.extend(part)
+        if progress is not None:
+            progress(len(variants), study.n_variants)
+    solved = len(variants)
+    variants += [VariantFigures(values=study.combination(k), error=STOPPED, ok=False)
+                 for k in range(solved, study.n_variants)]
     return StudyResult(
-        variables=study.variables, values=study.values, shape=study.shape, base=base,
-        variants=variants,
-        requirements={"life_h": req.life_h, "s0_min": req.s0_min,
-                      "fatigue_safety_min": req.fatigue_safety_min,
-                      "critical_speed_margin_pct": req.critical_speed_margin_pct},
-        elapsed_s=time.perf_counter() - t0, method=used)
+        variables=study.variables, values=study.values, shape=study.shape, base=start.base,
+        variants=variants, requirements=start.requirements, elapsed_s=time.perf_counter() - t0,
+        solved=solved, stopped=solved < study.n_variants)
 
 
 # --- arrangement comparison -------------------------------------------------------------------
@@ -721,17 +723,11 @@ class ArrangementComparison(_Frozen):
     elapsed_s: float = 0.0
 
 
-def _option(key: str, label: str, data: dict, *, current: bool, n_candidates: int,
-            catalogue: Any = None) -> ArrangementOption:
-    import engine
-
-    try:
-        d = parse_design(data)
-        res = engine.solve(d, diagrams=False, **_cat(catalogue))
-    except DesignError as exc:
-        return ArrangementOption(key=key, label=label, error=_message(exc), current=current)
-    except (ArithmeticError, ValueError, IndexError, np.linalg.LinAlgError) as exc:
-        return ArrangementOption(key=key, label=label, error=_message(_fault(exc)), current=current)
+def _option(key: str, label: str, d: Design | None, res: Any, *, current: bool,
+            n_candidates: int) -> ArrangementOption:
+    """One arrangement's figures from its solved result (or the error it gave)."""
+    if isinstance(res, DesignError):
+        return ArrangementOption(key=key, label=label, error=_message(res), current=current)
     fig = figures_of(d, res)
     by_id = {b.id: b for b in fig.bearings}
     bears: list[ArrangementBearing] = []
@@ -771,7 +767,7 @@ def compare_arrangements(design: Any, *, keys: Iterable[str] | None = None,
                          n_candidates: int = 3, catalogue: Any = None) -> ArrangementComparison:
     """Every arrangement of :data:`ARRANGEMENTS` (or ``keys``) on the current layout, ranked.
 
-    Each is solved by :func:`engine.solve`. Ranking: arrangements that meet every requirement
+    All are solved together by :func:`engine.solve_many`. Ranking: arrangements that meet every requirement
     first (bearing life, static safety and speed of the first-ranked candidates, slopes within
     the bearings' limits, no failing shaft check), then the smallest space taken (the annular
     volume Σ π/4·(D² − d²)·B of the chosen bearings), then the longer smallest life; those
@@ -779,18 +775,31 @@ def compare_arrangements(design: Any, *, keys: Iterable[str] | None = None,
     """
     import time
 
+    import engine
+
     t0 = time.perf_counter()
     design = parse_design(design)
     data = design.model_dump(mode="json")
     cur = _current_arrangement(design)
     keys = list(ARRANGEMENTS) if keys is None else list(keys)
-    opts = []
     for k in keys:
-        lab = arrangement_label(data, k) if k in ARRANGEMENTS else k
         if k not in ARRANGEMENTS:
             raise _err("arrangement", f"unknown arrangement {k!r}; use one of {', '.join(ARRANGEMENTS)}")
-        opts.append(_option(k, lab, arrangement_design(data, k), current=(k == cur), n_candidates=n_candidates,
-                            catalogue=catalogue))
+    designs: list[Design | None] = []
+    results: list[Any] = []
+    for k in keys:
+        try:
+            designs.append(parse_design(arrangement_design(data, k)))
+            results.append(None)
+        except DesignError as exc:
+            designs.append(None)
+            results.append(exc)
+    solved = engine.solve_many([d for d in designs if d is not None], diagrams=False,
+                               **({} if catalogue is None else {"catalogue": catalogue}))
+    it = iter(solved)
+    results = [next(it) if d is not None else r for d, r in zip(designs, results)]
+    opts = [_option(k, arrangement_label(data, k), d, r, current=(k == cur), n_candidates=n_candidates)
+            for k, d, r in zip(keys, designs, results)]
     order = sorted(range(len(opts)), key=lambda i: (
         opts[i].error is not None, not opts[i].ok,
         opts[i].volume_cm3 if opts[i].volume_cm3 is not None else math.inf,
@@ -799,263 +808,3 @@ def compare_arrangements(design: Any, *, keys: Iterable[str] | None = None,
     i, j = _ends(data)
     return ArrangementComparison(supports=(data["supports"][i]["id"], data["supports"][j]["id"]),
                                  options=ranked, elapsed_s=time.perf_counter() - t0)
-
-
-# --- the batched structural solve -------------------------------------------------------------
-# engine.beam.solve_bending_many: the bending of every variant at once (block-tridiagonal
-# elimination over the variants); kept here under its first name.
-batched_bending = solve_bending_many
-
-
-def batched_analyses(designs: Sequence[Design], *, loads: Sequence[Any] | None = None) -> list[Any]:
-    """:func:`engine.solve.analyse` for many designs at once (bending by :func:`batched_bending`).
-
-    ``loads``: per design, the list of per-case loads when the caller already has them (a
-    variant that moves no element and changes no element property has the base's loads).
-    """
-    from engine.beam import build_mesh
-    from engine.loads import case_loads
-    from engine.solve import Analysis, _weight_density
-
-    meshes = [build_mesh(d) for d in designs]
-    all_loads = [list(loads[k]) if loads is not None and loads[k] is not None
-                 else [case_loads(d, c) for c in d.load_cases] for k, d in enumerate(designs)]
-    F_list, w_list = [], []
-    for d, mesh, ls in zip(designs, meshes, all_loads):
-        nc, N = len(ls), mesh.n_nodes
-        F = np.zeros((nc, 2, N, 2))
-        if ls:  # as engine.solve.analyse, every case at once: Fy, Cz (x–y plane), Fz, −Cy (x–z plane)
-            at = (slice(None), mesh.element_nodes)
-            Fe, Ce = np.array([cl.F_N for cl in ls]), np.array([cl.C_Nmm for cl in ls])  # (nc, n_elements, 3)
-            np.add.at(F[:, 0, :, 0], at, Fe[:, :, 1])
-            np.add.at(F[:, 0, :, 1], at, Ce[:, :, 2])
-            np.add.at(F[:, 1, :, 0], at, Fe[:, :, 2])
-            np.add.at(F[:, 1, :, 1], at, -Ce[:, :, 1])
-        F_list.append(F)
-        w_list.append(_weight_density(d, ls))
-    beams = batched_bending(designs, meshes, F_list, [w[:, 1:] for w in w_list])
-    out = []
-    for d, mesh, ls, beam, w in zip(designs, meshes, all_loads, beams, w_list):
-        Fr = np.hypot(beam.R_N[:, 0, :], beam.R_N[:, 1, :])
-        volume = float(np.sum(mesh.A_mm2 * mesh.le_mm))
-        Fa_ext = np.array([cl.F_N[:, 0].sum() for cl in ls]) + w[:, 0] * volume
-        out.append(Analysis(d, mesh, ls, beam, Fr, Fa_ext, np.empty(0), np.empty(0)))
-    return out
-
-
-# --- the batched study path ---------------------------------------------------------------------
-
-class _HeldRating:
-    """Rates only the bearings held by a study (one catalogue row per support) with the bearing
-    layer's own screening (engine.bearings.candidates.screen_rows), for variants whose
-    arrangement has no induced axial forces (no angular contact or tapered bearing): there the
-    axial split does not depend on the rows, and a row's figures do not depend on the others,
-    so the held row's life, static safety and verdict are those of the full rating.
-    ``rate_many`` gives None where it does not apply (the caller then runs the full rating).
-    """
-
-    def __init__(self, design: Design, held: dict[str, str], catalogue: Any = None):
-        from engine.bearings import bundled_catalogue
-        from engine.bearings.equivalent import INDUCED_TYPES
-        from engine.bearings.life import WEIBULL_B, WEIBULL_THETA, WEIBULL_X0, a1_iso, weibull_factor
-        from engine.bearings.lubrication import viscosity_at
-
-        self.ok = not any(s.bearing_type in INDUCED_TYPES for s in design.supports)
-        self.cat = cat = bundled_catalogue() if catalogue is None else catalogue
-        req = design.requirements
-        if req.reliability_method == "weibull":
-            self.a_R = float(weibull_factor(req.reliability_pct, x0=getattr(req, "weibull_x0", WEIBULL_X0),
-                                            theta=getattr(req, "weibull_theta", WEIBULL_THETA),
-                                            b=getattr(req, "weibull_b", WEIBULL_B)))
-        else:
-            self.a_R = float(a1_iso(req.reliability_pct))
-        self.ec = req.contamination_ec
-        self.nu = None
-        if req.lubricant is not None and self.ec is not None:
-            lub = req.lubricant
-            try:
-                self.nu = float(viscosity_at(lub.operating_temp_C, iso_vg=lub.iso_vg,
-                                             viscosity_index=lub.viscosity_index))
-            except ValueError:
-                self.ok = False
-        self.rows: dict[str, int] = {}
-        for s in design.supports:
-            name = held.get(s.id)
-            if s.bearing_type is None:
-                continue
-            hit = np.flatnonzero((cat.designation == name) & (cat.bearing_type == s.bearing_type)) if name else []
-            if len(hit) != 1:
-                self.ok = False
-            else:
-                self.rows[s.id] = int(hit[0])
-
-    def _fits(self, design: Design) -> bool:
-        """The held rows still fit every bearing seat of this variant."""
-        cat = self.cat
-        for s in design.supports:
-            if s.bearing_type is None:
-                continue
-            r = self.rows.get(s.id)
-            bore = float(s.bore_mm if s.bore_mm is not None else design.shaft.diameter_at(s.x_mm))
-            if r is None or abs(cat.d_mm[r] - bore) >= 0.01 or s.contact_angle_deg is not None \
-                    or (s.dimension_series and cat.series[r] not in s.dimension_series):
-                return False
-        return True
-
-    def rate_many(self, designs: Sequence[Design], analyses: Sequence[Any]) -> list[tuple[Any, list[Any]] | None]:
-        """Per variant (split, bearings) of the held rows, or None where the full rating must
-        run (the held row no longer fits, or the axial resolution refuses the layout).
-
-        Variants with one bearing layout (types, axial roles, load cases) are rated together:
-        their load cases are stacked for the axial resolution (case by case, so each variant's
-        split is its own) and each support's held row is screened over all of them in one call.
-        """
-        from dataclasses import replace
-        from types import SimpleNamespace
-
-        from engine.bearings.axial import resolve_axial
-        from engine.bearings.candidates import LIFE_CAP_H, screen_rows
-
-        out: list[tuple[Any, list[Any]] | None] = [None] * len(designs)
-        if not self.ok:
-            return out
-        cat = self.cat
-        groups: dict[tuple, list[int]] = {}
-        for k, d in enumerate(designs):
-            if self._fits(d):
-                key = (tuple((s.id, s.bearing_type, s.axial) for s in d.supports),
-                       tuple((c.speed_rpm, c.time_fraction) for c in d.load_cases))
-                groups.setdefault(key, []).append(k)
-        for ks in groups.values():
-            d0 = designs[ks[0]]
-            req = d0.requirements
-            G, nc, ns = len(ks), len(d0.load_cases), len(d0.supports)
-            Fr = np.stack([analyses[k].Fr_N for k in ks])  # (G, nc, ns)
-            Ka = np.stack([analyses[k].Fa_ext_N for k in ks])
-            try:
-                split = resolve_axial(d0, Fr.reshape(G * nc, ns), Ka.reshape(-1), induced_ratios=np.zeros(ns))
-            except DesignError:
-                continue  # each variant goes through the full rating, which gives its own message
-            Fa = split.Fa_N.reshape(G, nc, ns)
-            n = np.array([c.speed_rpm for c in d0.load_cases], float)
-            t = np.array([c.time_fraction for c in d0.load_cases], float)
-            per_support = []
-            for i, s in enumerate(d0.supports):
-                if s.bearing_type is None:
-                    continue
-                r = self.rows[s.id]
-                sc = screen_rows(cat, np.array([r]), bearing_type=s.bearing_type, Fr_N=Fr[:, :, i],
-                                 Fa_N=Fa[:, None, :, i], speed_rpm=n, time_fraction=t,
-                                 life_h=req.life_h, a_R=self.a_R, s0_min=req.s0_min,
-                                 application_factor=float(req.application_factor), paired=False,
-                                 nu_mm2_s=self.nu, ec=self.ec)
-                per_support.append((s, r, sc))
-            parts = {f: getattr(split, f).reshape(G, nc, ns) for f in ("Fa_N", "Fx_N", "induced_N", "ratio")}
-            for g, k in enumerate(ks):
-                bearings = []
-                for s, r, sc in per_support:
-                    life_ok, static_ok, speed_ok = sc.life_ok[g, 0], sc.static_ok[g, 0], sc.speed_ok[g, 0]
-                    reasons = [w for w, flag in (("life", life_ok), ("static", static_ok), ("speed", speed_ok))
-                               if not flag]
-                    cand = SimpleNamespace(designation=str(cat.designation[r]), Lnm_h=float(sc.Lnm_h[g, 0]),
-                                           d_mm=float(cat.d_mm[r]), D_mm=float(cat.D_mm[r]), B_mm=float(cat.B_mm[r]),
-                                           L10_h=float(sc.L10_h[g, 0]), s0=float(min(sc.s0[g, 0], LIFE_CAP_H)),
-                                           ok=bool(sc.ok[g, 0]), reasons=reasons)
-                    bearings.append(SimpleNamespace(id=s.id, bearing_type=s.bearing_type, candidates=[cand]))
-                out[k] = (replace(split, **{f: v[g] for f, v in parts.items()}), bearings)
-        return out
-
-
-def _mirror_result(design: Design, a: Any, held: tuple[Any, list[Any]] | None = None,
-                   modes: Any = None, kt_shoulders: Any = None, catalogue: Any = None) -> Any:
-    """The parts of :func:`engine.solve`'s Result that the figures use, from an Analysis
-    (bearings rated, axial force and torque along x, shaft checks), as solve() makes them.
-
-    ``held``: (split, bearings) of the held rows (:meth:`_HeldRating.rate_many`), else the
-    full bearing rating runs; ``modes``, ``kt_shoulders``: the variant's lateral modes and
-    shoulder factors when already computed (for all variants at once)."""
-    from types import SimpleNamespace
-
-    from engine.bearings import rate_bearings
-    from engine.checks import shaft_checks
-    from engine.mounting import mounting
-    from engine.solve import carry_axial
-
-    if held is None:
-        outcome = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N, catalogue=catalogue)
-        split, bearings, bchecks = outcome.split, outcome.bearings, list(outcome.checks)
-    else:
-        (split, bearings), bchecks = held, []
-    carry_axial(a, split.Fx_N)
-    sc = shaft_checks(a, modes=modes, min_diameter=False, kt_shoulders=kt_shoulders)  # no section sizes shown
-    bchecks += mounting(a, bearings, with_fits=False).checks
-    shaft = SimpleNamespace(min_safety_factor=sc.min_safety_factor, critical_speed_rpm=sc.critical_speed_rpm)
-    cases = [SimpleNamespace(speed_rpm=c.speed_rpm) for c in design.load_cases]
-    return SimpleNamespace(bearings=bearings, checks=bchecks + list(sc.checks), shaft=shaft, load_cases=cases)
-
-
-def _loads_unchanged(study: Study) -> bool:
-    """True when no variable changes an element's loads (positions of supports and elements,
-    segment sizes, bearings): the base design's per-case loads serve every variant."""
-    for v in study.variables:
-        p = v.path
-        if p.startswith("elements.") and not p.endswith(".x_mm"):
-            return False
-    return True
-
-
-def _batched_figures(designs: list[Design], study: Study, held: dict[str, str],
-                     base_loads: list[Any] | None, *, fast_bearings: bool = False,
-                     catalogue: Any = None) -> list[VariantFigures | DesignError]:
-    from dataclasses import replace
-
-    loads = None
-    if base_loads is not None:
-        loads = []
-        for d in designs:
-            xs = np.array([e.x_mm for e in d.elements], dtype=float)
-            loads.append([replace(cl, x_mm=xs) for cl in base_loads])
-    out: list[VariantFigures | DesignError] = []
-    analyses = batched_analyses(designs, loads=loads)
-    rated: list[Any] = [None] * len(designs)
-    if fast_bearings and designs:
-        try:
-            rated = _HeldRating(designs[0], held, catalogue).rate_many(designs, analyses)
-        except (ArithmeticError, ValueError, IndexError):  # each variant then takes the full rating
-            rated = [None] * len(designs)
-    try:  # the figures show the first critical speed only: one mode (5 trial vectors) converges fastest
-        modes = dynamics.lateral_frequencies_many(designs, n_modes=1)
-    except (ArithmeticError, ValueError, IndexError):  # each variant's own checks then say what is wrong
-        modes = [None] * len(designs)
-    try:
-        kts = shoulder_kt([d.shaft for d in designs])
-    except (ArithmeticError, ValueError, IndexError):
-        kts = [None] * len(designs)
-    for d, a, r, m, kt, vals in zip(designs, analyses, rated, modes, kts, study.combinations()):
-        try:
-            out.append(figures_of(d, _mirror_result(d, a, r, m, kt, catalogue), held=held, values=vals))
-        except DesignError as exc:
-            out.append(exc)
-        except (ArithmeticError, ValueError, IndexError, np.linalg.LinAlgError) as exc:
-            out.append(_fault(exc))
-    return out
-
-
-def _same(f: VariantFigures, g: VariantFigures, rtol: float = 1e-9) -> bool:
-    """Two variants' figures agree (numbers to ``rtol``)."""
-    def close(x, y):
-        if x is None or y is None:
-            return x is y
-        if isinstance(x, (int, float)) and isinstance(y, (int, float)):
-            return math.isclose(x, y, rel_tol=rtol, abs_tol=1e-12) or (math.isinf(x) and x == y)
-        return x == y
-    if f.ok != g.ok or f.failing != g.failing or len(f.bearings) != len(g.bearings):
-        return False
-    keys = ("min_life_h", "safety_factor", "max_slope_rad", "critical_speed_rpm")
-    if not all(close(getattr(f, k), getattr(g, k)) for k in keys):
-        return False
-    for b, c in zip(f.bearings, g.bearings):
-        for k in ("designation", "life_h", "L10_h", "s0", "ok", "slope_rad", "slope_limit_rad"):
-            if not close(getattr(b, k), getattr(c, k)):
-                return False
-    return True

@@ -12,7 +12,11 @@ Pages
 - ``GET /study``: the study page, on the design carried in ``?d=`` (compressed, URL-safe) or the
   demo design. ``POST /study/open``: the editor's form state in, an ``HX-Redirect`` to the study
   page on that design out (the editor's "what-if studies" button).
-- ``POST /study/run`` and ``POST /study/arrangements``: the result fragments (htmx).
+- ``POST /study/run`` and ``POST /study/arrangements``: the result fragments (htmx). A study of
+  more than one chunk of variants (``engine.study.CHUNK``) runs as a job on a worker thread
+  (never on the event loop): ``/study/run`` answers with a progress fragment that polls
+  ``GET /study/job/{id}`` (share of variants done, a stop button posting
+  ``POST /study/job/{id}/stop``) until it answers with the result fragment.
 - ``POST /study/apply``: a variant taken into the design: the editor page opened on it.
 """
 from __future__ import annotations
@@ -22,6 +26,9 @@ import hashlib
 import json
 import logging
 import math
+import secrets
+import threading
+import time
 import zlib
 from typing import Any
 
@@ -31,7 +38,7 @@ from starlette.concurrency import run_in_threadpool
 
 import engine
 from engine.model import DesignError, Issue
-from engine.study import (ARRANGEMENTS, StudyResult, apply_values, compare_arrangements,
+from engine.study import (ARRANGEMENTS, CHUNK, StudyResult, apply_values, compare_arrangements,
                           parse_study, run_study)
 
 __all__ = ["router", "encode_design", "decode_design", "study_plot", "variable_options"]
@@ -253,21 +260,130 @@ def _fragment(request: Request, name: str, ctx: dict, status_code: int = 200) ->
     return _templates().TemplateResponse(request, name, ctx, status_code=status_code)
 
 
+def _result_fragment(request: Request, res: StudyResult) -> HTMLResponse:
+    ctx = {"res": res, "plot_json": json.dumps(_clean(study_plot(res))), "table": _table(res)}
+    return _fragment(request, "partials/study_result.html", ctx)
+
+
+def _fault_fragment(request: Request, exc: Exception) -> HTMLResponse:
+    return _fragment(request, "partials/study_errors.html",
+                     {"issues": [Issue(path="", message=f"the study could not be run ({type(exc).__name__}: {exc})")]}, 422)
+
+
+class _Job:
+    """A study running on its own worker thread: progress, a stop flag, then its result."""
+
+    def __init__(self, total: int):
+        self.total, self.done = total, 0
+        self.stop = threading.Event()
+        self.result: StudyResult | None = None
+        self.error: Exception | None = None
+        self.finished = threading.Event()
+        self.started = self.touched = time.monotonic()
+
+
+_JOBS: dict[str, _Job] = {}
+_JOBS_LOCK = threading.Lock()
+_MAX_JOBS = 8            # studies running at once on one server process
+_JOB_KEEP_S = 600.0      # a finished study nobody asked for is dropped after this
+
+
+def _prune_jobs() -> None:
+    now = time.monotonic()
+    with _JOBS_LOCK:
+        for key in [k for k, j in _JOBS.items() if j.finished.is_set() and now - j.touched > _JOB_KEEP_S]:
+            del _JOBS[key]
+
+
+def _start_job(data: Any, study) -> str | None:
+    """Start the study on a worker thread; its id, or None when too many run already."""
+    _prune_jobs()
+    with _JOBS_LOCK:
+        if sum(not j.finished.is_set() for j in _JOBS.values()) >= _MAX_JOBS:
+            return None
+        key = secrets.token_urlsafe(12)
+        job = _JOBS[key] = _Job(study.n_variants)
+
+    def run() -> None:
+        try:
+            job.result = run_study(data, study, stop=job.stop.is_set,
+                                   progress=lambda done, total: setattr(job, "done", done))
+        except Exception as exc:  # reported on the page by the next poll
+            if not isinstance(exc, DesignError):
+                log.exception("study failed")
+            job.error = exc
+        finally:
+            job.finished.set()
+
+    threading.Thread(target=run, name=f"study-{key}", daemon=True).start()
+    return key
+
+
+def _progress_fragment(request: Request, key: str, job: _Job) -> HTMLResponse:
+    return _fragment(request, "partials/study_progress.html",
+                     {"key": key, "done": job.done, "total": job.total,
+                      "pct": int(100 * job.done / job.total) if job.total else 0,
+                      "stopping": job.stop.is_set()})
+
+
 @router.post("/study/run", response_class=HTMLResponse)
 async def study_run(request: Request) -> HTMLResponse:
-    """Run the study of the page's form: the plots and the table (422: the messages)."""
+    """Run the study of the page's form: the plots and the table (422: the messages). A study
+    of more than one chunk runs as a job: the answer is its progress fragment."""
     form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
     try:
         data = _form_design(form)
-        res = await run_in_threadpool(run_study, data, _vary_of(form))
+        study = await run_in_threadpool(parse_study, data, _vary_of(form))
+        if study.n_variants <= CHUNK:
+            res = await run_in_threadpool(run_study, data, study)
+            return _result_fragment(request, res)
     except DesignError as exc:
         return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
     except Exception as exc:  # never lose the page to an engine fault
         log.exception("study failed")
-        return _fragment(request, "partials/study_errors.html",
-                         {"issues": [Issue(path="", message=f"the study could not be run ({type(exc).__name__}: {exc})")]}, 422)
-    ctx = {"res": res, "plot_json": json.dumps(_clean(study_plot(res))), "table": _table(res)}
-    return _fragment(request, "partials/study_result.html", ctx)
+        return _fault_fragment(request, exc)
+    key = _start_job(data, study)
+    if key is None:
+        return _fragment(request, "partials/study_errors.html", {"issues": [Issue(
+            path="", message=f"{_MAX_JOBS} studies are running on this server; wait for one to finish "
+                             "and run this one again")]}, 503)
+    return _progress_fragment(request, key, _JOBS[key])
+
+
+def _job(key: str) -> _Job | None:
+    with _JOBS_LOCK:
+        job = _JOBS.get(key)
+    if job is not None:
+        job.touched = time.monotonic()
+    return job
+
+
+@router.get("/study/job/{key}", response_class=HTMLResponse)
+def study_job(request: Request, key: str) -> HTMLResponse:
+    """A running study's progress fragment, or its result once it has finished."""
+    job = _job(key)
+    if job is None:
+        return _fragment(request, "partials/study_errors.html", {"issues": [Issue(
+            path="", message="this study is no longer on the server (it finished long ago, or the "
+                             "server restarted); run it again")]}, 404)
+    if not job.finished.is_set():
+        return _progress_fragment(request, key, job)
+    if isinstance(job.error, DesignError):
+        return _fragment(request, "partials/study_errors.html", {"issues": job.error.errors}, 422)
+    if job.error is not None:
+        return _fault_fragment(request, job.error)
+    return _result_fragment(request, job.result)
+
+
+@router.post("/study/job/{key}/stop", response_class=HTMLResponse)
+def study_job_stop(request: Request, key: str) -> HTMLResponse:
+    """Ask a running study to stop after the chunk it is solving; the next poll shows the
+    variants solved so far."""
+    job = _job(key)
+    if job is None:
+        return HTMLResponse("", status_code=404)
+    job.stop.set()
+    return _progress_fragment(request, key, job)
 
 
 @router.post("/study/arrangements", response_class=HTMLResponse)

@@ -2,8 +2,14 @@
 
 Public entry points
 -------------------
+rate_bearings_many(designs, *, Fr_N, Fa_ext_N, catalogue=None) -> [BearingOutcome | EngineError]
+    Called by ``engine.solve_many``: designs of one bearing layout are screened together,
+    every support's rows over (variants × cases × rows) arrays. ``rate_bearings(design, …)``
+    is the same for one design. In named steps: the life method (:func:`_life_method`), the
+    first axial split, the screen, the refinement of an induced-force pair, the candidates,
+    the checks, the result.
 rate_bearings(design, *, Fr_N, Fa_ext_N, catalogue=None) -> BearingOutcome
-    Called by ``engine.solve`` with the radial reactions of every support in every case and
+    With the radial reactions of every support in every case and
     the net external axial force; returns the axial split, one ``BearingResult`` per support
     that has a bearing type, the checks and warnings.
 resolve_axial(design, Fr_N, Fa_ext_N, *, Y_induced=None) -> AxialSplit
@@ -22,6 +28,7 @@ Sign and units: N, mm, rpm, h. Nothing here writes files; the bundled table is r
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Any, Sequence
 
 import numpy as np
 
@@ -38,7 +45,7 @@ from engine.bearings.lubrication import SOURCE_NU1, SOURCE_VISCOSITY, viscosity_
 from engine.model import Design, EngineError
 from engine.result import BearingResult, Candidate, Check, SeriesMinimum
 
-__all__ = ["BearingOutcome", "AxialSplit", "Catalogue", "rate_bearings", "resolve_axial",
+__all__ = ["BearingOutcome", "AxialSplit", "Catalogue", "rate_bearings", "rate_bearings_many", "resolve_axial",
            "load_catalogue", "parse_catalogue", "bundled_catalogue", "BUNDLED_PATH"]
 
 _TYPE_WORDS = {"deep_groove_ball": "deep groove ball", "angular_contact_ball": "angular contact ball",
@@ -120,9 +127,338 @@ def _row_Fa(sp: _Support, split: AxialSplit, cat: Catalogue, Fr: np.ndarray, Ka:
     return Fa_P - Ka[None, :]
 
 
+@dataclass(frozen=True)
+class _Life:
+    """The life method of a design's requirements: reliability factor, its alternative, the
+    lubricant's viscosity and the texts the messages use."""
+
+    a_R: float
+    a_other: float
+    method: str
+    other: str
+    src_life: str
+    nu: float | None
+    ec: float | None
+    warnings: tuple[str, ...]
+
+
+def _life_method(design: Design) -> _Life:
+    """Step 1: reliability factor (ISO 281 a1 or the textbook Weibull factor) and, when both
+    lubricant and contamination are given, the operating viscosity for aISO."""
+    req = design.requirements
+    if req.reliability_method == "weibull":
+        x0 = getattr(req, "weibull_x0", WEIBULL_X0)
+        th = getattr(req, "weibull_theta", WEIBULL_THETA)
+        b = getattr(req, "weibull_b", WEIBULL_B)
+        a_R = float(weibull_factor(req.reliability_pct, x0=x0, theta=th, b=b))
+        a_other = float(a1_iso(req.reliability_pct))
+        method = (f"textbook Weibull factor {a_R:.3g} at R = {req.reliability_pct:g} % "
+                  f"(x0 {x0:g}, θ {th:g}, b {b:g})")
+        other = f"ISO 281 a1 = {a_other:.3g}"
+        src_R = SOURCE_WEIBULL
+    else:
+        a_R = float(a1_iso(req.reliability_pct))
+        a_other = float(weibull_factor(req.reliability_pct))
+        method = f"ISO 281:2007 a1 = {a_R:.3g} at R = {req.reliability_pct:g} %"
+        other = f"textbook Weibull factor {a_other:.3g}"
+        src_R = SOURCE_A1
+    warnings: list[str] = []
+    nu = None
+    ec = req.contamination_ec
+    if req.lubricant is not None and ec is not None:
+        lub = req.lubricant
+        try:
+            nu = float(viscosity_at(lub.operating_temp_C, iso_vg=lub.iso_vg,
+                                    viscosity_index=lub.viscosity_index))
+        except ValueError as exc:
+            raise EngineError.at("requirements.lubricant.iso_vg", str(exc)) from None
+        method += (f"; aISO from κ (ν = {nu:.3g} mm²/s at {lub.operating_temp_C:g} °C, VG {lub.iso_vg:g}, "
+                   f"VI {lub.viscosity_index:g}) and ec = {ec:g}")
+    elif (req.lubricant is None) != (ec is None):
+        missing = "contamination_ec" if ec is None else "lubricant"
+        warnings.append(f"requirements.{missing} is not given: the modified life uses aISO = 1 "
+                        "(give both lubricant and contamination_ec for ISO 281's aISO)")
+    src_life = "; ".join([SOURCE_L10, src_R] + ([SOURCE_AISO, SOURCE_NU1, SOURCE_VISCOSITY] if nu is not None else [])
+                         + [SOURCE_MINER])
+    return _Life(a_R, a_other, method, other, src_life, nu, ec, tuple(warnings))
+
+
+def _layout_key(design: Design, cat: Catalogue) -> tuple:
+    """Designs with equal keys have the same supports' rows, seats and roles, the same load
+    case speeds and shares and the same requirements: their bearings are screened together."""
+    return (id(cat), design.requirements.model_dump_json(),
+            tuple((s.bearing_type, s.axial, tuple(s.dimension_series or ()), s.contact_angle_deg,
+                   s.bore_mm if s.bore_mm is not None else design.shaft.diameter_at(s.x_mm))
+                  for s in design.supports),
+            tuple((c.speed_rpm, c.time_fraction) for c in design.load_cases))
+
+
+def _first_split(design: Design, sups: dict[int, _Support], cat: Catalogue, Fr: np.ndarray,
+                 Ka: np.ndarray) -> tuple[np.ndarray, AxialSplit]:
+    """Step 2: the axial split with each induced-force bearing's median factor of the rows
+    that fit its seat."""
+    ratio0 = np.zeros(len(design.supports))
+    for i, sp in sups.items():
+        ratio0[i] = sp.default_ratio(cat)
+    return ratio0, resolve_axial(design, Fr, Ka, induced_ratios=ratio0)
+
+
+def _screen(cat: Catalogue, sp: _Support, life: _Life, design: Design, Fr_i: np.ndarray, Fa: np.ndarray) -> Screen:
+    """Step 3: every row of a support's type screened over every case (and every variant when
+    ``Fr_i`` (V, nc) and ``Fa`` (V, 1 or rows, nc) carry a leading variant axis)."""
+    req = design.requirements
+    return screen_rows(cat, sp.rows, bearing_type=sp.kind, Fr_N=Fr_i, Fa_N=Fa,
+                       speed_rpm=np.array([c.speed_rpm for c in design.load_cases], float),
+                       time_fraction=np.array([c.time_fraction for c in design.load_cases], float),
+                       life_h=req.life_h, a_R=life.a_R, s0_min=req.s0_min,
+                       application_factor=float(req.application_factor), paired=sp.paired,
+                       nu_mm2_s=life.nu, ec=life.ec)
+
+
+def _variant(sc: Screen, v: int) -> Screen:
+    """One variant's screen out of a screen over many (shared fields kept)."""
+    shared = {"idx", "C_N", "C0_N", "limiting_speed_rpm", "n_max_rpm"}
+    return Screen(**{f: (getattr(sc, f) if f in shared else getattr(sc, f)[v]) for f in Screen.__dataclass_fields__})
+
+
+def _refine_pair(design: Design, sups: dict[int, _Support], cat: Catalogue, life: _Life, Fr: np.ndarray,
+                 Ka: np.ndarray, ratio0: np.ndarray, split: AxialSplit, screens: dict, orders: dict) -> AxialSplit:
+    """Step 4: for a cross-located induced-force pair, the split again with the two
+    top-ranked rows' own factors, and those supports screened again (one pass)."""
+    if split.pair is None or None in split.pair:
+        return split
+    members = [i for i in split.pair if i in sups and sups[i].kind in INDUCED_TYPES]
+    if not members or not all(orders[i].size for i in members):
+        return split
+    ratio1 = ratio0.copy()
+    for i in members:
+        top = sups[i].rows[orders[i][0]]
+        ratio1[i] = float(sups[i].row_ratio(cat, np.array([top]))[0])
+    split = resolve_axial(design, Fr, Ka, induced_ratios=ratio1)
+    for i in members:
+        screens[i] = _screen(cat, sups[i], life, design, Fr[:, i], _row_Fa(sups[i], split, cat, Fr, Ka))
+        orders[i] = rank(cat, screens[i], np.flatnonzero(sups[i].fit))
+    return split
+
+
+def _candidates(cat: Catalogue, sp: _Support, sc: Screen, order: np.ndarray, req) -> list[Candidate]:
+    """Step 5: the ranked candidates of one support with the reasons a row fails."""
+    out: list[Candidate] = []
+    for pos in order:
+        r = sc.idx[pos]
+        reasons = []
+        if not sc.life_ok[pos]:
+            reasons.append(f"life {_fmt(sc.Lnm_h[pos])} h < {_fmt(req.life_h)} h required")
+        if not sc.static_ok[pos]:
+            reasons.append(f"static safety s0 {sc.s0[pos]:.3g} < {req.s0_min:g}")
+        if not sc.speed_ok[pos]:
+            reasons.append(f"speed {_fmt(sc.n_max_rpm)} rpm > limiting {_fmt(sc.limiting_speed_rpm[pos])} rpm")
+        nl = cat.limiting_speed_rpm[r]
+        out.append(Candidate(
+            designation=str(cat.designation[r]) + (" (matched pair)" if sp.paired else ""),
+            series=str(cat.series[r]), d_mm=float(cat.d_mm[r]), D_mm=float(cat.D_mm[r]),
+            B_mm=float(cat.B_mm[r]), C_N=float(sc.C_N[pos]), C0_N=float(sc.C0_N[pos]),
+            P_N=float(sc.Pm_N[pos]), L10_h=float(sc.L10_h[pos]), Lnm_h=float(sc.Lnm_h[pos]),
+            s0=float(min(sc.s0[pos], LIFE_CAP_H)),
+            limiting_speed_rpm=None if np.isnan(nl) else float(nl), ok=bool(sc.ok[pos]),
+            reasons=reasons))
+    return out
+
+
+def _support_checks(design: Design, i: int, sp: _Support, sc: Screen, order: np.ndarray, split: AxialSplit,
+                    cands: list[Candidate], mins: list[SeriesMinimum], cat: Catalogue, life: _Life,
+                    own_table: bool) -> list[Check]:
+    """Step 6: the checks of one support: seat, life, static safety, speed, lubrication,
+    candidates, axial load on a radial bearing, arrangement."""
+    s, req, cases = sp.s, design.requirements, design.load_cases
+    word = _TYPE_WORDS[sp.kind]
+    where = s.id
+    min_txt = ", ".join(f"series {m.series}: " + (f"d = {m.d_mm:g} mm" if m.d_mm is not None else "none")
+                        for m in mins)
+    top = order[0] if order.size else None
+    checks: list[Check] = []
+    if not sp.rows.size:
+        checks.append(Check(code="bearing.seat", status="warn", where=where, source=cat.name,
+                            message=f"{s.id}: the bearing table has no {word} rows"
+                                    + (f" of series {', '.join(s.dimension_series)}" if s.dimension_series else "")
+                                    + "; the bearing is not rated (load a table that has them)"))
+    elif top is None:
+        bores = np.unique(cat.d_mm[sp.rows])
+        near = bores[np.argsort(np.abs(bores - sp.bore))[:3]]
+        checks.append(Check(code="bearing.seat", status="fail", where=where, value=sp.bore,
+                            unit="mm", source=cat.name,
+                            message=f"{s.id}: no {word} bearing in the table has bore {sp.bore:g} mm "
+                                    f"(nearest: {', '.join(f'{b:g}' for b in sorted(near))} mm); change the "
+                                    f"seat diameter or set supports[{i}].bore_mm"
+                                    + (f"; smallest that passes: {min_txt}" if mins else "")))
+    if top is not None:
+        c = cands[0]
+        life_status = "ok" if sc.life_ok[top] else "fail"
+        checks.append(Check(code="bearing.life", status=life_status, where=where, value=c.Lnm_h,
+                            limit=req.life_h, unit="h", source=life.src_life,
+                            message=f"{s.id} {c.designation}: {_life_txt(c, life.method)} against "
+                                    f"{_fmt(req.life_h)} h required"))
+        wc = int(sc.worst_static_case[top])
+        checks.append(Check(code="bearing.static", status="ok" if sc.static_ok[top] else "fail",
+                            where=where, value=c.s0, limit=req.s0_min, unit="",
+                            load_case=cases[wc].name, source=SOURCE_P0 + "; s0 = C0/P0",
+                            message=f"{s.id} {c.designation}: static safety "
+                                    + ("not limited (the bearing carries no load) " if c.s0 >= LIFE_CAP_H
+                                       else f"s0 = {c.s0:.3g} ") +
+                                    f"(P0 = {_fmt(sc.P0_N[top, wc])} N in '{cases[wc].name}')"))
+        nl = sc.limiting_speed_rpm[top]
+        if np.isnan(nl):
+            checks.append(Check(code="bearing.speed", status="warn", where=where, value=sc.n_max_rpm,
+                                unit="rpm", source=cat.name,
+                                message=f"{s.id} {c.designation}: no limiting speed in the table; speed not checked"))
+        else:
+            checks.append(Check(code="bearing.speed", status="ok" if sc.speed_ok[top] else "fail",
+                                where=where, value=sc.n_max_rpm, limit=float(nl), unit="rpm",
+                                source=f"{cat.name}, limiting speed of the row"
+                                       + (" (n·dm rule for grease, common practice)" if not own_table else ""),
+                                message=f"{s.id} {c.designation}: highest speed {_fmt(sc.n_max_rpm)} rpm "
+                                        f"against limiting {_fmt(nl)} rpm"))
+        if life.nu is not None:
+            km = float(sc.kappa_min[top])
+            st = "ok" if km >= 1.0 else "warn"
+            msg = f"{s.id}: viscosity ratio κ = {km:.3g} (lowest over the cases)"
+            if km < 0.1:
+                msg += "; below 0.1 ISO 281's aISO does not apply (evaluated at κ = 0.1): use a thicker oil"
+            elif km < 1.0:
+                msg += "; below 1 the film is thin and aISO lowers the life"
+            checks.append(Check(code="bearing.lubrication", status=st, where=where, value=km, limit=1.0,
+                                source=SOURCE_NU1 + "; " + SOURCE_VISCOSITY, message=msg))
+        if not sc.ok[order].any():
+            checks.append(Check(code="bearing.candidates", status="fail", where=where,
+                                value=float(sp.bore), unit="mm", source=cat.name,
+                                message=f"{s.id}: no {word} bearing with bore {sp.bore:g} mm meets every "
+                                        f"requirement; smallest bore that does: {min_txt}"))
+    if sp.kind in RADIAL_ONLY:
+        Fa_max = float(np.max(split.Fa_N[:, i])) if split.Fa_N.size else 0.0
+        if Fa_max > 1e-6:
+            checks.append(Check(code="bearing.axial_on_radial", status="warn", where=where,
+                                value=Fa_max, limit=0.0, unit="N", source=SOURCE_P,
+                                message=f"{s.id}: a {word} bearing is given {_fmt(Fa_max)} N axial load; "
+                                        "its rating life takes P = Fr only (ISO 281 rates it radial "
+                                        "only): check the ribs' axial capacity with the supplier, or let "
+                                        "another support locate"))
+    if s.bearing_type in INDUCED_TYPES and s.axial == "none":
+        checks.append(Check(code="bearing.arrangement", status="warn", where=where, source=SOURCE_INDUCED,
+                            message=f"{s.id}: a single {word} bearing cannot float: its induced axial "
+                                    "force needs an opposed bearing ('+x'/'-x' pair) or a matched pair ('both')"))
+    return checks
+
+
+def _bearing_result(design: Design, i: int, sp: _Support, sc: Screen, order: np.ndarray, split: AxialSplit,
+                    cat: Catalogue, life: _Life, Fr: np.ndarray, own_table: bool) -> tuple[BearingResult, list[Check]]:
+    """Steps 5–7 for one support: candidates, smallest bore per series, checks, notes and
+    the BearingResult."""
+    s, req = sp.s, design.requirements
+    notes = [f"life method: {life.method}; for comparison {life.other}"]
+    if order.size:
+        alt = float(sc.Lnm_h[order[0]]) * life.a_other / life.a_R
+        notes[0] += f" (it would give {_fmt(alt)} h for {cat.designation[sc.idx[order[0]]]})"
+    notes.append(f"application factor {float(req.application_factor):g} applied to Fr and Fa for P and P0")
+    if not own_table:
+        notes.append(ILLUSTRATIVE)
+    if sp.paired:
+        notes.append("matched pair at one position: C × 2^0.7 (ball) or 2^(7/9) (roller), C0 and Cu × 2, "
+                     "pair load factors (ISO 281 cl. 6.1, 6.2)")
+    if s.bearing_type in INDUCED_TYPES and split.pair and i in split.pair:
+        notes.append(SOURCE_INDUCED)
+    cands = _candidates(cat, sp, sc, order, req)
+    series_list = list(s.dimension_series) if s.dimension_series else sorted(set(cat.series[sp.rows]))
+    mins = [SeriesMinimum(series=ser, d_mm=None if pos is None else float(cat.d_mm[sc.idx[pos]]),
+                          designation=None if pos is None else str(cat.designation[sc.idx[pos]]))
+            for ser, pos in smallest_by_series(cat, sc, series_list)]
+    checks = _support_checks(design, i, sp, sc, order, split, cands, mins, cat, life, own_table)
+    top = order[0] if order.size else None
+    Fa_rep = np.broadcast_to(sc.Fa_N[top] if top is not None else split.Fa_N[:, i], (len(design.load_cases),))
+    return BearingResult(
+        id=s.id, bearing_type=sp.kind, bore_mm=sp.bore,
+        equivalent_load_N=float(sc.Pm_N[top]) if top is not None else 0.0,
+        required_C_N=float(sc.required_C_N[top]) if top is not None else 0.0,
+        life_method=life.method, arrangement=f"{split.roles[i]}; {split.arrangement}",
+        Fr_N=[float(v) for v in Fr[:, i]], Fa_N=[float(v) for v in Fa_rep],
+        candidates=cands, smallest_by_series=mins, notes=notes), checks
+
+
+def _rate_group(designs: Sequence[Design], Frs: Sequence[np.ndarray], Kas: Sequence[np.ndarray], cat: Catalogue,
+                own_table: bool, life: _Life) -> list[BearingOutcome | EngineError]:
+    """Designs of one bearing layout (:func:`_layout_key`): the axial split of each, then every
+    support's rows screened over (variants × cases × rows) at once, then per design the
+    refinement of an induced-force pair, the candidates, checks and results."""
+    d0 = designs[0]
+    sups = {i: _Support(d0, i, cat) for i, s in enumerate(d0.supports) if s.bearing_type is not None}
+    splits: list[Any] = []
+    for d, Fr, Ka in zip(designs, Frs, Kas):
+        try:
+            splits.append(_first_split(d, sups, cat, Fr, Ka))
+        except EngineError as exc:
+            splits.append(exc)
+    live = [v for v, sp in enumerate(splits) if not isinstance(sp, EngineError)]
+    screens_all: dict[int, Screen] = {}
+    if live:
+        Fr_st = np.stack([Frs[v] for v in live])  # (V, nc, ns)
+        for i, sp in sups.items():
+            Fa = [_row_Fa(sp, splits[v][1], cat, Frs[v], Kas[v]) for v in live]
+            width = max(f.shape[0] for f in Fa)
+            Fa_st = np.stack([np.broadcast_to(f, (width, f.shape[1])) for f in Fa])
+            screens_all[i] = _screen(cat, sp, life, d0, Fr_st[:, :, i], Fa_st)
+    out: list[BearingOutcome | EngineError] = []
+    for v, (d, Fr, Ka, sp_v) in enumerate(zip(designs, Frs, Kas, splits)):
+        if isinstance(sp_v, EngineError):
+            out.append(sp_v)
+            continue
+        ratio0, split = sp_v
+        k = live.index(v)
+        screens = {i: _variant(sc, k) for i, sc in screens_all.items()}
+        orders = {i: rank(cat, screens[i], np.flatnonzero(sp.fit)) for i, sp in sups.items()}
+        try:
+            split = _refine_pair(d, sups, cat, life, Fr, Ka, ratio0, split, screens, orders)
+        except EngineError as exc:
+            out.append(exc)
+            continue
+        results, checks = [], []
+        for i, sp in sups.items():
+            br, ch = _bearing_result(d, i, sp, screens[i], orders[i], split, cat, life, Fr, own_table)
+            results.append(br)
+            checks += ch
+        out.append(BearingOutcome(split=split, bearings=results, checks=checks,
+                                  warnings=list(split.warnings) + list(cat.warnings) + list(life.warnings)))
+    return out
+
+
+def rate_bearings_many(designs: Sequence[Design], *, Fr_N: Sequence[np.ndarray], Fa_ext_N: Sequence[np.ndarray],
+                       catalogue: Catalogue | None = None) -> list[BearingOutcome | EngineError]:
+    """:func:`rate_bearings` of many designs (``engine.solve_many``): one BearingOutcome, or the
+    EngineError the design raised, each. Designs of one bearing layout are screened together,
+    every support's rows over (variants × cases × rows) arrays."""
+    cat = bundled_catalogue() if catalogue is None else catalogue
+    out: list[Any] = [None] * len(designs)
+    groups: dict[tuple, list[int]] = {}
+    lives: dict[int, _Life] = {}
+    for k, d in enumerate(designs):
+        try:
+            check_contact_angles(d)  # before the first-pass induced ratios look the angle up
+            lives[k] = _life_method(d)
+        except EngineError as exc:
+            out[k] = exc
+            continue
+        groups.setdefault(_layout_key(d, cat), []).append(k)
+    for ks in groups.values():
+        Frs = [np.atleast_2d(np.asarray(Fr_N[k], float)) for k in ks]
+        Kas = [np.asarray(Fa_ext_N[k], float).reshape(-1) for k in ks]
+        for k, r in zip(ks, _rate_group([designs[k] for k in ks], Frs, Kas, cat, catalogue is not None,
+                                        lives[ks[0]])):
+            out[k] = r
+    return out
+
+
 def rate_bearings(design: Design, *, Fr_N: np.ndarray, Fa_ext_N: np.ndarray,
                   catalogue: Catalogue | None = None) -> BearingOutcome:
-    """Rate the bearings of a design: axial split, lives, static safety, ranked candidates.
+    """Rate the bearings of a design: axial split, lives, static safety, ranked candidates
+    (:func:`rate_bearings_many` of one design).
 
     Parameters
     ----------
@@ -148,207 +484,7 @@ def rate_bearings(design: Design, *, Fr_N: np.ndarray, Fa_ext_N: np.ndarray,
     engine.model.EngineError
         From the axial resolution, or a lubricant outside the viscosity relation.
     """
-    check_contact_angles(design)  # before the first-pass induced ratios look the angle up
-    cat = bundled_catalogue() if catalogue is None else catalogue
-    Fr = np.atleast_2d(np.asarray(Fr_N, float))
-    Ka = np.asarray(Fa_ext_N, float).reshape(-1)
-    req = design.requirements
-    cases = design.load_cases
-    n = np.array([c.speed_rpm for c in cases], float)
-    t = np.array([c.time_fraction for c in cases], float)
-    af = float(req.application_factor)
-
-    sups = {i: _Support(design, i, cat) for i, s in enumerate(design.supports) if s.bearing_type is not None}
-    ratio0 = np.zeros(len(design.supports))
-    for i, sp in sups.items():
-        ratio0[i] = sp.default_ratio(cat)
-    split = resolve_axial(design, Fr, Ka, induced_ratios=ratio0)
-
-    # reliability factor
-    if req.reliability_method == "weibull":
-        x0 = getattr(req, "weibull_x0", WEIBULL_X0)
-        th = getattr(req, "weibull_theta", WEIBULL_THETA)
-        b = getattr(req, "weibull_b", WEIBULL_B)
-        a_R = float(weibull_factor(req.reliability_pct, x0=x0, theta=th, b=b))
-        a_other = float(a1_iso(req.reliability_pct))
-        method = (f"textbook Weibull factor {a_R:.3g} at R = {req.reliability_pct:g} % "
-                  f"(x0 {x0:g}, θ {th:g}, b {b:g})")
-        other = f"ISO 281 a1 = {a_other:.3g}"
-        src_R = SOURCE_WEIBULL
-    else:
-        a_R = float(a1_iso(req.reliability_pct))
-        a_other = float(weibull_factor(req.reliability_pct))
-        method = f"ISO 281:2007 a1 = {a_R:.3g} at R = {req.reliability_pct:g} %"
-        other = f"textbook Weibull factor {a_other:.3g}"
-        src_R = SOURCE_A1
-
-    warnings: list[str] = list(split.warnings) + list(cat.warnings)
-    nu = None
-    ec = req.contamination_ec
-    if req.lubricant is not None and ec is not None:
-        lub = req.lubricant
-        try:
-            nu = float(viscosity_at(lub.operating_temp_C, iso_vg=lub.iso_vg,
-                                    viscosity_index=lub.viscosity_index))
-        except ValueError as exc:
-            raise EngineError.at("requirements.lubricant.iso_vg", str(exc)) from None
-        method += (f"; aISO from κ (ν = {nu:.3g} mm²/s at {lub.operating_temp_C:g} °C, VG {lub.iso_vg:g}, "
-                   f"VI {lub.viscosity_index:g}) and ec = {ec:g}")
-    elif (req.lubricant is None) != (ec is None):
-        missing = "contamination_ec" if ec is None else "lubricant"
-        warnings.append(f"requirements.{missing} is not given: the modified life uses aISO = 1 "
-                        "(give both lubricant and contamination_ec for ISO 281's aISO)")
-    src_life = "; ".join([SOURCE_L10, src_R] + ([SOURCE_AISO, SOURCE_NU1, SOURCE_VISCOSITY] if nu is not None else [])
-                         + [SOURCE_MINER])
-
-    def do_screen(sp: _Support, sp_split: AxialSplit) -> Screen:
-        return screen_rows(cat, sp.rows, bearing_type=sp.kind, Fr_N=Fr[:, sp.i],
-                           Fa_N=_row_Fa(sp, sp_split, cat, Fr, Ka), speed_rpm=n, time_fraction=t,
-                           life_h=req.life_h, a_R=a_R, s0_min=req.s0_min, application_factor=af,
-                           paired=sp.paired, nu_mm2_s=nu, ec=ec)
-
-    screens = {i: do_screen(sp, split) for i, sp in sups.items()}
-    orders = {i: rank(cat, screens[i], np.flatnonzero(sp.fit)) for i, sp in sups.items()}
-
-    # one refinement pass for an induced-force pair: split with the two top-ranked rows
-    if split.pair is not None and None not in split.pair:
-        members = [i for i in split.pair if i in sups and sups[i].kind in INDUCED_TYPES]
-        if members and all(orders[i].size for i in members):
-            ratio1 = ratio0.copy()
-            for i in members:
-                top = sups[i].rows[orders[i][0]]
-                ratio1[i] = float(sups[i].row_ratio(cat, np.array([top]))[0])
-            split = resolve_axial(design, Fr, Ka, induced_ratios=ratio1)
-            for i in members:
-                screens[i] = do_screen(sups[i], split)
-                orders[i] = rank(cat, screens[i], np.flatnonzero(sups[i].fit))
-
-    checks: list[Check] = []
-    results: list[BearingResult] = []
-    for i, sp in sups.items():
-        sc, order, s = screens[i], orders[i], sp.s
-        word = _TYPE_WORDS[sp.kind]
-        notes = [f"life method: {method}; for comparison {other}"]
-        if order.size:
-            alt = float(sc.Lnm_h[order[0]]) * a_other / a_R
-            notes[0] += f" (it would give {_fmt(alt)} h for {cat.designation[sc.idx[order[0]]]})"
-        notes.append(f"application factor {af:g} applied to Fr and Fa for P and P0")
-        if catalogue is None:
-            notes.append(ILLUSTRATIVE)
-        if sp.paired:
-            notes.append("matched pair at one position: C × 2^0.7 (ball) or 2^(7/9) (roller), C0 and Cu × 2, "
-                         "pair load factors (ISO 281 cl. 6.1, 6.2)")
-        if s.bearing_type in INDUCED_TYPES and split.pair and i in split.pair:
-            notes.append(SOURCE_INDUCED)
-        role = split.roles[i]
-        arrangement = f"{role}; {split.arrangement}"
-        cands: list[Candidate] = []
-        for pos in order:
-            r = sc.idx[pos]
-            reasons = []
-            if not sc.life_ok[pos]:
-                reasons.append(f"life {_fmt(sc.Lnm_h[pos])} h < {_fmt(req.life_h)} h required")
-            if not sc.static_ok[pos]:
-                reasons.append(f"static safety s0 {sc.s0[pos]:.3g} < {req.s0_min:g}")
-            if not sc.speed_ok[pos]:
-                reasons.append(f"speed {_fmt(sc.n_max_rpm)} rpm > limiting {_fmt(sc.limiting_speed_rpm[pos])} rpm")
-            nl = cat.limiting_speed_rpm[r]
-            cands.append(Candidate(
-                designation=str(cat.designation[r]) + (" (matched pair)" if sp.paired else ""),
-                series=str(cat.series[r]), d_mm=float(cat.d_mm[r]), D_mm=float(cat.D_mm[r]),
-                B_mm=float(cat.B_mm[r]), C_N=float(sc.C_N[pos]), C0_N=float(sc.C0_N[pos]),
-                P_N=float(sc.Pm_N[pos]), L10_h=float(sc.L10_h[pos]), Lnm_h=float(sc.Lnm_h[pos]),
-                s0=float(min(sc.s0[pos], LIFE_CAP_H)),
-                limiting_speed_rpm=None if np.isnan(nl) else float(nl), ok=bool(sc.ok[pos]),
-                reasons=reasons))
-        series_list = list(s.dimension_series) if s.dimension_series else sorted(set(cat.series[sp.rows]))
-        mins = []
-        for ser, pos in smallest_by_series(cat, sc, series_list):
-            mins.append(SeriesMinimum(series=ser, d_mm=None if pos is None else float(cat.d_mm[sc.idx[pos]]),
-                                      designation=None if pos is None else str(cat.designation[sc.idx[pos]])))
-        min_txt = ", ".join(f"series {m.series}: " + (f"d = {m.d_mm:g} mm" if m.d_mm is not None else "none")
-                            for m in mins)
-
-        top = order[0] if order.size else None
-        Fa_rep = (sc.Fa_N[top] if top is not None else split.Fa_N[:, i])
-        Fa_rep = np.broadcast_to(Fa_rep, (len(cases),))
-        where = s.id
-        if not sp.rows.size:
-            checks.append(Check(code="bearing.seat", status="warn", where=where, source=cat.name,
-                                message=f"{s.id}: the bearing table has no {word} rows"
-                                        + (f" of series {', '.join(s.dimension_series)}" if s.dimension_series else "")
-                                        + "; the bearing is not rated (load a table that has them)"))
-        elif top is None:
-            bores = np.unique(cat.d_mm[sp.rows])
-            near = bores[np.argsort(np.abs(bores - sp.bore))[:3]]
-            checks.append(Check(code="bearing.seat", status="fail", where=where, value=sp.bore,
-                                unit="mm", source=cat.name,
-                                message=f"{s.id}: no {word} bearing in the table has bore {sp.bore:g} mm "
-                                        f"(nearest: {', '.join(f'{b:g}' for b in sorted(near))} mm); change the "
-                                        f"seat diameter or set supports[{i}].bore_mm"
-                                        + (f"; smallest that passes: {min_txt}" if mins else "")))
-        if top is not None:
-            c = cands[0]
-            life_status = "ok" if sc.life_ok[top] else "fail"
-            checks.append(Check(code="bearing.life", status=life_status, where=where, value=c.Lnm_h,
-                                limit=req.life_h, unit="h", source=src_life,
-                                message=f"{s.id} {c.designation}: {_life_txt(c, method)} against "
-                                        f"{_fmt(req.life_h)} h required"))
-            wc = int(sc.worst_static_case[top])
-            checks.append(Check(code="bearing.static", status="ok" if sc.static_ok[top] else "fail",
-                                where=where, value=c.s0, limit=req.s0_min, unit="",
-                                load_case=cases[wc].name, source=SOURCE_P0 + "; s0 = C0/P0",
-                                message=f"{s.id} {c.designation}: static safety "
-                                        + ("not limited (the bearing carries no load) " if c.s0 >= LIFE_CAP_H
-                                           else f"s0 = {c.s0:.3g} ") +
-                                        f"(P0 = {_fmt(sc.P0_N[top, wc])} N in '{cases[wc].name}')"))
-            nl = sc.limiting_speed_rpm[top]
-            if np.isnan(nl):
-                checks.append(Check(code="bearing.speed", status="warn", where=where, value=sc.n_max_rpm,
-                                    unit="rpm", source=cat.name,
-                                    message=f"{s.id} {c.designation}: no limiting speed in the table; speed not checked"))
-            else:
-                checks.append(Check(code="bearing.speed", status="ok" if sc.speed_ok[top] else "fail",
-                                    where=where, value=sc.n_max_rpm, limit=float(nl), unit="rpm",
-                                    source=f"{cat.name}, limiting speed of the row"
-                                           + (" (n·dm rule for grease, common practice)" if catalogue is None else ""),
-                                    message=f"{s.id} {c.designation}: highest speed {_fmt(sc.n_max_rpm)} rpm "
-                                            f"against limiting {_fmt(nl)} rpm"))
-            if nu is not None:
-                km = float(sc.kappa_min[top])
-                st = "ok" if km >= 1.0 else "warn"
-                msg = f"{s.id}: viscosity ratio κ = {km:.3g} (lowest over the cases)"
-                if km < 0.1:
-                    msg += "; below 0.1 ISO 281's aISO does not apply (evaluated at κ = 0.1): use a thicker oil"
-                elif km < 1.0:
-                    msg += "; below 1 the film is thin and aISO lowers the life"
-                checks.append(Check(code="bearing.lubrication", status=st, where=where, value=km, limit=1.0,
-                                    source=SOURCE_NU1 + "; " + SOURCE_VISCOSITY, message=msg))
-            if not sc.ok[order].any():
-                checks.append(Check(code="bearing.candidates", status="fail", where=where,
-                                    value=float(sp.bore), unit="mm", source=cat.name,
-                                    message=f"{s.id}: no {word} bearing with bore {sp.bore:g} mm meets every "
-                                            f"requirement; smallest bore that does: {min_txt}"))
-        if sp.kind in RADIAL_ONLY:
-            Fa_max = float(np.max(split.Fa_N[:, i])) if split.Fa_N.size else 0.0
-            if Fa_max > 1e-6:
-                checks.append(Check(code="bearing.axial_on_radial", status="warn", where=where,
-                                    value=Fa_max, limit=0.0, unit="N", source=SOURCE_P,
-                                    message=f"{s.id}: a {word} bearing is given {_fmt(Fa_max)} N axial load; "
-                                            "its rating life takes P = Fr only (ISO 281 rates it radial "
-                                            "only): check the ribs' axial capacity with the supplier, or let "
-                                            "another support locate"))
-        if s.bearing_type in INDUCED_TYPES and s.axial == "none":
-            checks.append(Check(code="bearing.arrangement", status="warn", where=where, source=SOURCE_INDUCED,
-                                message=f"{s.id}: a single {word} bearing cannot float: its induced axial "
-                                        "force needs an opposed bearing ('+x'/'-x' pair) or a matched pair ('both')"))
-        results.append(BearingResult(
-            id=s.id, bearing_type=sp.kind, bore_mm=sp.bore,
-            equivalent_load_N=float(sc.Pm_N[top]) if top is not None else 0.0,
-            required_C_N=float(sc.required_C_N[top]) if top is not None else 0.0,
-            life_method=method, arrangement=arrangement,
-            Fr_N=[float(v) for v in Fr[:, i]], Fa_N=[float(v) for v in Fa_rep],
-            candidates=cands, smallest_by_series=mins, notes=notes))
-    return BearingOutcome(split=split, bearings=results, checks=checks, warnings=warnings)
-
-
+    r = rate_bearings_many([design], Fr_N=[Fr_N], Fa_ext_N=[Fa_ext_N], catalogue=catalogue)[0]
+    if isinstance(r, EngineError):
+        raise r
+    return r

@@ -20,8 +20,9 @@ SUPPORTS = [30.0, 330.0, 650.0]
 LOADS = [(150.0, -2500.0, 800.0), (480.0, 1200.0, -3000.0), (690.0, -900.0, -400.0)]  # x, Fy, Fz
 
 
-def ours():
-    design = {
+def three_support_design(elements: int = 140) -> dict:
+    """The shaft of this check as a design document (also the beam benchmark's)."""
+    return {
         "name": "three-support check",
         "shaft": {"material": {"E_GPa": E / 1e3, "G_GPa": G / 1e3},
                   "segments": [{"length_mm": L, "d_mm": d} for L, d in SEGMENTS]},
@@ -30,9 +31,12 @@ def ours():
         "elements": [{"id": f"F{i}", "kind": "force", "x_mm": x, "Fy_N": fy, "Fz_N": fz}
                      for i, (x, fy, fz) in enumerate(LOADS)],
         "load_cases": [{"name": "c", "speed_rpm": 100}],
-        "gravity": None, "analysis": {"shear_deformation": False, "elements": 140},
+        "gravity": None, "analysis": {"shear_deformation": False, "elements": elements},
     }
-    return engine.solve(design)
+
+
+def ours():
+    return engine.solve(three_support_design())
 
 
 def theirs():

@@ -668,7 +668,10 @@ def test_every_number_at_every_extreme(name):
 
 
 def test_finest_mesh_allowed():
-    """analysis.elements at its upper bound (2000) on the three-bearing demo: solves in bounds."""
+    """analysis.elements at its upper bound (MAX_MESH_ELEMENTS, 20 000) on the three-bearing demo:
+    solves in bounds."""
+    from engine.model import MAX_MESH_ELEMENTS
+
     doc = copy.deepcopy(BASES["line_shaft.json"])
-    doc["analysis"] = {"elements": 2000}
+    doc["analysis"] = {"elements": MAX_MESH_ELEMENTS}
     assert check_engine(doc) is None

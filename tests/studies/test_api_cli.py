@@ -113,3 +113,53 @@ def test_cli_table_and_csv(capsys):
 def test_cli_bad_input_exits_2_naming_the_field(capsys, argv, words):
     assert main(["study", DEMO] + argv) == 2
     assert words in capsys.readouterr().err
+
+
+def test_a_long_study_runs_as_a_job_with_progress_and_can_be_stopped(client):
+    """More than one chunk of variants: the page gets a progress fragment that polls the job
+    (share of variants done), the job runs off the event loop, and stop ends it early with
+    the variants solved so far."""
+    import time
+
+    from engine.study import CHUNK
+
+    data = load_sample("countershaft.json")
+    n = 30 * (CHUNK // 10)  # three chunks
+    frag = client.post("/study/run", data={"design": json.dumps(data), "var1": "supports.B.x_mm",
+                                           "range1": "242:268:30", "var2": "elements.G1.x_mm",
+                                           "range2": f"120:180:{CHUNK // 10}"})
+    assert frag.status_code == 200 and 'id="study-progress"' in frag.text and f"of {n} variants done" in frag.text
+    key = frag.text.split('hx-get="/study/job/', 1)[1].split('"', 1)[0]
+    stop = client.post(f"/study/job/{key}/stop")
+    assert stop.status_code == 200 and "Stopping" in stop.text
+    for _ in range(600):
+        r = client.get(f"/study/job/{key}")
+        if 'id="study-plot-data"' in r.text:
+            break
+        assert 'id="study-progress"' in r.text
+        time.sleep(0.1)
+    assert r.status_code == 200 and "stopped on request" in r.text
+    assert client.get("/study/job/no-such-job").status_code == 404
+
+
+def test_cli_streams_csv_rows_per_chunk_and_stops_on_ctrl_c(capsys, monkeypatch):
+    """CSV rows are written chunk by chunk; an interrupt (Ctrl-C) keeps the rows solved so far
+    and says so on stderr; no progress bar when stderr is not a terminal."""
+    import engine.study as study_mod
+
+    real = study_mod._variant_figures
+    calls = []
+
+    def interrupted_after_two(*args, **kw):
+        calls.append(1)
+        if len(calls) > 2:
+            raise KeyboardInterrupt
+        return real(*args, **kw)
+
+    monkeypatch.setattr(study_mod, "_variant_figures", interrupted_after_two)
+    monkeypatch.setitem(study_mod.iter_study.__kwdefaults__, "chunk", 3)  # chunks of 3 variants
+    assert main(["study", DEMO, "--vary", "supports.B.x_mm=242:268:10", "--csv"]) == 0
+    cap = capsys.readouterr()
+    rows = list(csv.reader(io.StringIO(cap.out)))
+    assert len(rows) == 1 + 6 and float(rows[1][0]) == 242.0
+    assert "stopped: 6 of 10 variants solved" in cap.err and "variant/s" not in cap.err

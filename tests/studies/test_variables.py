@@ -95,5 +95,5 @@ def test_number_of_variables_and_variants(design):
         parse_study(design, ["supports.B.x_mm=200:210:2", "supports[1].x_mm=200:210:2"])
     assert _issue(exc) == ("supports.B.x_mm", "supports.B.x_mm is varied twice")
     with pytest.raises(DesignError) as exc:
-        parse_study(design, ["supports.A.x_mm=10:80:60", "supports.B.x_mm=200:260:60"])
-    assert _issue(exc) == ("vary", f"3600 variants; at most {MAX_VARIANTS} are solved in one study")
+        parse_study(design, ["supports.A.x_mm=10:80:150", "supports.B.x_mm=200:260:150"])
+    assert _issue(exc) == ("vary", f"22500 variants; at most {MAX_VARIANTS} are solved in one study")
