@@ -12,6 +12,7 @@ error                                   status  meaning
 :class:`app.store.StoreUnavailable`     503     the store cannot be written (read-only, full
                                                 disk, locked); ``Retry-After`` says when to
                                                 try again, nothing the user typed is lost
+``app.work.ServerBusy``                  503     every worker process busy for the whole budget
 anything else                           500     a page in words with an error id; the same id
                                                 and the traceback go to the log
 ======================================  ======  ==============================================
@@ -36,6 +37,7 @@ from fastapi.responses import HTMLResponse, JSONResponse, Response
 from starlette.exceptions import HTTPException as StarletteHTTPException
 
 from app.store import NotFound, StoreUnavailable
+from app.work import ServerBusy
 from engine.model import DesignError
 
 __all__ = ["Conflict", "install", "error_response", "RETRY_AFTER_S"]
@@ -119,6 +121,11 @@ async def _store_unavailable(request: Request, exc: StoreUnavailable) -> Respons
     return error_response(request, 503, str(exc), headers={"Retry-After": str(RETRY_AFTER_S)})
 
 
+async def _busy(request: Request, exc: ServerBusy) -> Response:
+    log.warning("busy: %s", exc)
+    return error_response(request, 503, str(exc), headers={"Retry-After": str(RETRY_AFTER_S)})
+
+
 async def _request_invalid(request: Request, exc: RequestValidationError) -> Response:
     errors = []
     for e in exc.errors():
@@ -149,6 +156,7 @@ def install(app: FastAPI) -> None:
     app.add_exception_handler(NotFound, _not_found)
     app.add_exception_handler(Conflict, _conflict)
     app.add_exception_handler(StoreUnavailable, _store_unavailable)
+    app.add_exception_handler(ServerBusy, _busy)
     app.add_exception_handler(RequestValidationError, _request_invalid)
     app.add_exception_handler(StarletteHTTPException, _http_error)
     app.add_exception_handler(Exception, _unexpected)

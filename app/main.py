@@ -7,6 +7,7 @@ from fastapi import FastAPI
 from fastapi.staticfiles import StaticFiles
 
 import engine
+from app import errors
 from app.routers import api, designs, pages, studies
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -20,4 +21,5 @@ def create_app() -> FastAPI:
     app.mount("/static", StaticFiles(directory=ROOT / "static"), name="static")
     for module in (pages, api, designs, studies):
         app.include_router(module.router)
+    errors.install(app)  # one error policy for every route (app/errors.py)
     return app

@@ -1,0 +1,275 @@
+"""Heavy work off the event loop, inside a time budget: solves and studies.
+
+Why processes: the engine is numpy and a Python thread cannot be stopped, so a solve run in
+the thread pool that meets its budget would go on burning a core after its answer was given
+up. A check of the clock between the engine's steps would leave each step unbounded (one
+dense solve of a large beam is one step) and would thread a deadline through every engine
+function. A child process is the simplest thing that really bounds the cost: when the budget
+is spent the child is killed and replaced, and the user gets :class:`BudgetExceeded`
+(413, a message in words).
+
+:func:`run_bounded` sends a call to one of a few long-lived child processes (a
+``forkserver`` that has imported the engine once, so a replacement starts in milliseconds)
+and waits, in the calling thread, for at most the budget. Call it from a thread (a plain
+``def`` route, or ``run_in_threadpool``), never on the event loop. The pool has
+``SHAFTWRIGHT_SOLVE_PROCESSES`` children (default: the number of CPUs); a call that finds
+them all busy waits its turn within the same budget.
+
+:func:`solve` is the bounded :func:`engine.solve` with the work limits of
+:func:`app.limits.check_work` first and a cache of results by design content, so a page that
+shows a stored revision solves it once, not on every read. Budgets (seconds): solve
+``SHAFTWRIGHT_SOLVE_BUDGET_S`` (default 10), study ``SHAFTWRIGHT_STUDY_BUDGET_S``
+(default 120); see :mod:`app.settings`.
+"""
+from __future__ import annotations
+
+import hashlib
+import logging
+import multiprocessing as mp
+import os
+import queue
+import threading
+import time
+from collections import OrderedDict
+from typing import Any, Callable
+
+import engine
+from app.limits import LimitError, check_work
+from app.settings import get_settings
+from engine.model import DesignError, EngineError, Issue
+
+__all__ = ["BudgetExceeded", "ServerBusy", "run_bounded", "solve", "clear_cache", "shutdown"]
+
+log = logging.getLogger("shaftwright.work")
+
+
+class BudgetExceeded(LimitError):
+    """The work did not finish within its time budget and was stopped (413)."""
+
+    def __init__(self, what: str, budget_s: float):
+        super().__init__("", f"{what} did not finish within its time budget of {budget_s:g} s and "
+                             "was stopped. Make the design lighter (fewer load cases, a coarser "
+                             "mesh in analysis.elements, a shorter bearing table, fewer study "
+                             "points) or ask whoever runs the server for a longer budget.",
+                         status_code=413)
+
+
+class ServerBusy(Exception):
+    """Every worker process stayed busy for the whole budget (503, try again shortly)."""
+
+
+# --- the child side -----------------------------------------------------------------------
+
+def _child(conn) -> None:
+    """Serve calls until the pipe closes: (fn, args, kwargs) in, ("ok", value) or an error out."""
+    while True:
+        try:
+            fn, args, kwargs = conn.recv()
+        except (EOFError, OSError):
+            return
+        try:
+            answer = ("ok", fn(*args, **kwargs))
+        except DesignError as exc:
+            answer = ("design", type(exc).__name__, [(i.path, i.message) for i in exc.errors],
+                      getattr(exc, "status_code", 422))
+        except BaseException as exc:  # noqa: BLE001 - reported to the parent, which logs it
+            import traceback
+
+            answer = ("fault", f"{type(exc).__name__}: {exc}", traceback.format_exc())
+        try:
+            conn.send(answer)
+        except Exception as exc:  # noqa: BLE001 - e.g. a value that does not pickle
+            conn.send(("fault", f"the answer could not be sent back ({exc})", ""))
+
+
+def _raise(answer: tuple) -> None:
+    kind = answer[0]
+    if kind == "design":
+        _, cls, issues, status = answer
+        issues = [Issue(path=p, message=m) for p, m in issues]
+        if cls == "EngineError":
+            raise EngineError(issues)
+        if status != 422 or cls == "LimitError":
+            err = LimitError("", "", status_code=status)
+            err.errors = issues
+            err.args = ("; ".join(f"{i.path}: {i.message}" for i in issues),)
+            raise err
+        raise DesignError(issues)
+    raise RuntimeError(f"the engine failed in a worker process: {answer[1]}\n{answer[2]}")
+
+
+# --- the parent side ----------------------------------------------------------------------
+
+class _Worker:
+    def __init__(self, ctx):
+        self.conn, child_end = ctx.Pipe()
+        self.proc = ctx.Process(target=_child, args=(child_end,), daemon=True,
+                                name="shaftwright-work")
+        self.proc.start()
+        child_end.close()
+
+    def stop(self) -> None:
+        try:
+            self.proc.kill()
+            self.proc.join(timeout=5)
+        finally:
+            self.conn.close()
+
+
+class _Pool:
+    """A few child processes; a call takes an idle one (or starts one), a timed-out one dies."""
+
+    def __init__(self, size: int):
+        self.size = max(1, size)
+        self._idle: "queue.LifoQueue[_Worker]" = queue.LifoQueue()
+        self._lock = threading.Lock()
+        self._count = 0
+        self._pid = os.getpid()
+        self._ctx = mp.get_context("forkserver")
+        self._ctx.set_forkserver_preload(["engine", "app.work"])
+
+    def _take(self, deadline: float) -> _Worker | None:
+        while True:
+            try:
+                return self._idle.get_nowait()
+            except queue.Empty:
+                pass
+            with self._lock:
+                if self._count < self.size:
+                    self._count += 1
+                    break
+            left = deadline - time.monotonic()
+            if left <= 0:
+                return None
+            try:
+                return self._idle.get(timeout=min(left, 0.5))
+            except queue.Empty:
+                continue
+        try:
+            return _Worker(self._ctx)
+        except BaseException:
+            with self._lock:
+                self._count -= 1
+            raise
+
+    def _drop(self, worker: _Worker) -> None:
+        with self._lock:
+            self._count -= 1
+        worker.stop()
+
+    def call(self, fn: Callable, args: tuple, kwargs: dict, *, budget_s: float, what: str) -> Any:
+        start = time.monotonic()
+        deadline = start + budget_s
+        worker = self._take(deadline)
+        if worker is None:
+            raise ServerBusy(f"the server is busy with other solves and studies; {what.lower()} "
+                             f"could not start within {budget_s:g} s. Try again shortly.")
+        try:
+            worker.conn.send((fn, args, kwargs))
+            if not worker.conn.poll(max(0.0, deadline - time.monotonic())):
+                log.warning("%s stopped at its budget of %g s", what, budget_s)
+                self._drop(worker)
+                raise BudgetExceeded(what, budget_s)
+            answer = worker.conn.recv()
+        except (EOFError, OSError, BrokenPipeError) as exc:  # the child died (e.g. out of memory)
+            self._drop(worker)
+            raise RuntimeError(f"the worker process for {what} ended unexpectedly ({exc!r})") from None
+        except BudgetExceeded:
+            raise
+        except BaseException:
+            self._drop(worker)
+            raise
+        self._idle.put(worker)
+        if answer[0] == "ok":
+            return answer[1]
+        _raise(answer)
+
+    def shutdown(self) -> None:
+        while True:
+            try:
+                worker = self._idle.get_nowait()
+            except queue.Empty:
+                return
+            self._drop(worker)
+
+
+_POOL: _Pool | None = None
+_POOL_LOCK = threading.Lock()
+
+
+def _pool() -> _Pool:
+    global _POOL
+    with _POOL_LOCK:
+        if _POOL is None or _POOL._pid != os.getpid():  # a forked server worker needs its own
+            _POOL = _Pool(get_settings().solve_processes)
+        return _POOL
+
+
+def shutdown() -> None:
+    """Stop the child processes (they also end with the server)."""
+    global _POOL
+    with _POOL_LOCK:
+        if _POOL is not None and _POOL._pid == os.getpid():
+            _POOL.shutdown()
+        _POOL = None
+
+
+def run_bounded(fn: Callable, *args: Any, budget_s: float, what: str, **kwargs: Any) -> Any:
+    """``fn(*args, **kwargs)`` in a child process, stopped after ``budget_s`` seconds.
+
+    ``fn`` must be a module-level function and its arguments and value must pickle. Raises
+    :class:`BudgetExceeded` when the budget is spent, the engine's :class:`DesignError`
+    (and :class:`EngineError`, :class:`LimitError`) as raised in the child, and
+    ``RuntimeError`` for any other failure (a 500 with an error id)."""
+    return _pool().call(fn, args, kwargs, budget_s=budget_s, what=what)
+
+
+# --- solve, bounded and cached -------------------------------------------------------------
+
+_CACHE: "OrderedDict[str, Any]" = OrderedDict()
+_CACHE_LOCK = threading.Lock()
+_CACHE_SIZE = 128
+
+
+def clear_cache() -> None:
+    with _CACHE_LOCK:
+        _CACHE.clear()
+
+
+def _solve_in_child(design: engine.Design, catalogue: Any = None) -> Any:
+    return engine.solve(design, catalogue=catalogue)
+
+
+def solve(design_data: Any, *, catalogue: Any = None) -> Any:
+    """:func:`engine.solve` within the work limits and the solve budget, cached by content.
+
+    Bad input raises :class:`DesignError` as :func:`engine.solve` does; a design that would
+    take too much work raises :class:`LimitError` (413) before any solving; one that runs
+    past the budget raises :class:`BudgetExceeded` (and that answer is cached too, so
+    reading its page again costs nothing)."""
+    design = engine.parse_design(design_data)
+    check_work(design)
+    key = hashlib.sha256(design.model_dump_json().encode("utf-8")).hexdigest()
+    if catalogue is None:
+        with _CACHE_LOCK:
+            hit = _CACHE.get(key)
+            if hit is not None:
+                _CACHE.move_to_end(key)
+        if hit is not None:
+            if isinstance(hit, BaseException):
+                raise hit.with_traceback(None)
+            return hit
+    budget = get_settings().solve_budget_s
+    try:
+        outcome = run_bounded(_solve_in_child, design, catalogue, budget_s=budget,
+                              what="The solve")
+    except (DesignError, BudgetExceeded) as exc:
+        outcome = exc
+    if catalogue is None:
+        with _CACHE_LOCK:
+            _CACHE[key] = outcome
+            if len(_CACHE) > _CACHE_SIZE:
+                _CACHE.popitem(last=False)
+    if isinstance(outcome, BaseException):
+        raise outcome
+    return outcome
