@@ -45,7 +45,8 @@ def solve_document(data: Any) -> tuple[int, dict]:
     try:
         result = work.solve(data)  # bounded in time, cached by content
     except engine.DesignError as exc:
-        return 422, {"errors": [{"path": i.path, "message": i.message} for i in exc.errors]}
+        return (getattr(exc, "status_code", 422),  # 413: too large or too much work
+                {"errors": [{"path": i.path, "message": i.message} for i in exc.errors]})
     except Exception as exc:  # noqa: BLE001 - never a bare 500 for a design
         log.exception("engine failed")
         return 422, {"errors": [{"path": "", "message": "the engine could not solve this design "
