@@ -37,7 +37,7 @@ def cmd_solve(args: argparse.Namespace) -> int:
 def cmd_serve(args: argparse.Namespace) -> int:
     from app.server import run
 
-    run(host=args.host, port=args.port)
+    run(host=args.host, port=args.port, workers=args.workers)
     return 0
 
 
@@ -62,6 +62,8 @@ def main(argv: list[str] | None = None) -> int:
     p = sub.add_parser("serve", help="run the web app (opens on the demo design)")
     p.add_argument("--host", default="127.0.0.1")
     p.add_argument("--port", type=int, default=8000)
+    p.add_argument("--workers", type=int, default=1, metavar="N",
+                   help="server processes sharing the port (SQLite or PostgreSQL; see docs/deployment.md)")
     p.set_defaults(func=cmd_serve)
     p = sub.add_parser("note", help="print a design's note to PDF through headless Chromium")
     p.add_argument("design")

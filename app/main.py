@@ -1,13 +1,14 @@
 """Build the FastAPI application: ``create_app()`` includes one router per feature."""
 from __future__ import annotations
 
+from contextlib import asynccontextmanager
 from pathlib import Path
 
 from fastapi import FastAPI
 from fastapi.staticfiles import StaticFiles
 
 import engine
-from app import errors
+from app import errors, work
 from app.routers import api, designs, pages, studies
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -22,4 +23,12 @@ def create_app() -> FastAPI:
     for module in (pages, api, designs, studies):
         app.include_router(module.router)
     errors.install(app)  # one error policy for every route (app/errors.py)
+    app.router.lifespan_context = _lifespan  # solve processes ready before the first edit
     return app
+
+
+@asynccontextmanager
+async def _lifespan(app: FastAPI):
+    work.warm_up()
+    yield
+    work.shutdown()

@@ -38,7 +38,8 @@ from app.limits import LimitError, check_work
 from app.settings import get_settings
 from engine.model import DesignError, EngineError, Issue
 
-__all__ = ["BudgetExceeded", "ServerBusy", "run_bounded", "solve", "clear_cache", "shutdown"]
+__all__ = ["BudgetExceeded", "ServerBusy", "run_bounded", "solve", "clear_cache", "shutdown",
+           "warm_up"]
 
 log = logging.getLogger("shaftwright.work")
 
@@ -212,6 +213,22 @@ def shutdown() -> None:
         if _POOL is not None and _POOL._pid == os.getpid():
             _POOL.shutdown()
         _POOL = None
+
+
+def _noop() -> None:
+    return None
+
+
+def warm_up() -> None:
+    """Start the forkserver and one child in the background (a server's first edit should not
+    wait for the engine to be imported); called when the server starts."""
+    def go():
+        try:
+            run_bounded(_noop, budget_s=60, what="Warming up")
+        except Exception:  # noqa: BLE001 - a real call will report the problem
+            log.exception("could not start a solve process")
+
+    threading.Thread(target=go, name="shaftwright-warm-up", daemon=True).start()
 
 
 def run_bounded(fn: Callable, *args: Any, budget_s: float, what: str, **kwargs: Any) -> Any:
