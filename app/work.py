@@ -215,20 +215,23 @@ def shutdown() -> None:
         _POOL = None
 
 
-def _noop() -> None:
-    return None
-
-
 def warm_up() -> None:
     """Start the forkserver and one child in the background (a server's first edit should not
     wait for the engine to be imported); called when the server starts."""
-    def go():
-        try:
-            run_bounded(_noop, budget_s=60, what="Warming up")
+    def go(pause_s: float = 0.0):
+        try:  # a pause, so that the calls overlap and each starts its own child
+            run_bounded(time.sleep, pause_s, budget_s=60, what="Warming up")
         except Exception:  # noqa: BLE001 - a real call will report the problem
             log.exception("could not start a solve process")
 
-    threading.Thread(target=go, name="shaftwright-warm-up", daemon=True).start()
+    def all_of_them():
+        go()  # the forkserver first, then the other children side by side
+        n = _pool().size
+        threads = [threading.Thread(target=go, args=(0.5,), daemon=True) for _ in range(n)]
+        for t in threads:
+            t.start()
+
+    threading.Thread(target=all_of_them, name="shaftwright-warm-up", daemon=True).start()
 
 
 def run_bounded(fn: Callable, *args: Any, budget_s: float, what: str, **kwargs: Any) -> Any:
