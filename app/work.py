@@ -8,9 +8,10 @@ function. A child process is the simplest thing that really bounds the cost: whe
 is spent the child is killed and replaced, and the user gets :class:`BudgetExceeded`
 (413, a message in words).
 
-:func:`run_bounded` sends a call to one of a few long-lived child processes (a
-``forkserver`` that has imported the engine once, so a replacement starts in milliseconds)
-and waits, in the calling thread, for at most the budget. Call it from a thread (a plain
+:func:`run_bounded` sends a call to one of a few long-lived child processes
+and waits, in the calling thread, for at most the budget. The children are plain
+``python -c`` subprocesses that talk over two pipes (not ``multiprocessing`` processes, whose
+start re-imports the main module and so depends on how the server was launched). Call it from a thread (a plain
 ``def`` route, or ``run_in_threadpool``), never on the event loop. The pool has
 ``SHAFTWRIGHT_SOLVE_PROCESSES`` children (default: the number of CPUs); a call that finds
 them all busy waits its turn within the same budget.
@@ -25,12 +26,15 @@ from __future__ import annotations
 
 import hashlib
 import logging
-import multiprocessing as mp
 import os
 import queue
+import subprocess
+import sys
 import threading
 import time
 from collections import OrderedDict
+from multiprocessing.connection import Connection
+from pathlib import Path
 from typing import Any, Callable
 
 import engine
@@ -61,8 +65,17 @@ class ServerBusy(Exception):
 
 # --- the child side -----------------------------------------------------------------------
 
-def _child(conn) -> None:
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def _child_main(read_fd: int, write_fd: int) -> None:
+    """The child's loop: calls in on one pipe, answers out on the other, until the parent goes."""
+    _child(Connection(read_fd, writable=False), Connection(write_fd, readable=False))
+
+
+def _child(conn, out=None) -> None:
     """Serve calls until the pipe closes: (fn, args, kwargs) in, ("ok", value) or an error out."""
+    out = out or conn
     while True:
         try:
             fn, args, kwargs = conn.recv()
@@ -78,9 +91,9 @@ def _child(conn) -> None:
 
             answer = ("fault", f"{type(exc).__name__}: {exc}", traceback.format_exc())
         try:
-            conn.send(answer)
+            out.send(answer)
         except Exception as exc:  # noqa: BLE001 - e.g. a value that does not pickle
-            conn.send(("fault", f"the answer could not be sent back ({exc})", ""))
+            out.send(("fault", f"the answer could not be sent back ({exc})", ""))
 
 
 def _raise(answer: tuple) -> None:
@@ -102,18 +115,33 @@ def _raise(answer: tuple) -> None:
 # --- the parent side ----------------------------------------------------------------------
 
 class _Worker:
-    def __init__(self, ctx):
-        self.conn, child_end = ctx.Pipe()
-        self.proc = ctx.Process(target=_child, args=(child_end,), daemon=True,
-                                name="shaftwright-work")
-        self.proc.start()
-        child_end.close()
+    """One child process: ``python -c`` running :func:`_child_main` on two pipes."""
+
+    def __init__(self):
+        to_child_r, to_child_w = os.pipe()
+        from_child_r, from_child_w = os.pipe()
+        env = dict(os.environ)
+        env["PYTHONPATH"] = str(ROOT) + (os.pathsep + env["PYTHONPATH"] if env.get("PYTHONPATH") else "")
+        for var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
+            env.setdefault(var, "1")  # small systems: one BLAS thread per process is fastest
+        try:
+            self.proc = subprocess.Popen(
+                [sys.executable, "-c", "import sys; from app.work import _child_main; "
+                 "_child_main(int(sys.argv[1]), int(sys.argv[2]))", str(to_child_r), str(from_child_w)],
+                pass_fds=(to_child_r, from_child_w), env=env, cwd=str(ROOT),
+                stdin=subprocess.DEVNULL)
+        finally:
+            os.close(to_child_r)
+            os.close(from_child_w)
+        self.send = Connection(to_child_w, readable=False)
+        self.conn = Connection(from_child_r, writable=False)
 
     def stop(self) -> None:
         try:
             self.proc.kill()
-            self.proc.join(timeout=5)
+            self.proc.wait(timeout=5)
         finally:
+            self.send.close()
             self.conn.close()
 
 
@@ -126,8 +154,6 @@ class _Pool:
         self._lock = threading.Lock()
         self._count = 0
         self._pid = os.getpid()
-        self._ctx = mp.get_context("forkserver")
-        self._ctx.set_forkserver_preload(["engine", "app.work"])
 
     def _take(self, deadline: float) -> _Worker | None:
         while True:
@@ -147,7 +173,7 @@ class _Pool:
             except queue.Empty:
                 continue
         try:
-            return _Worker(self._ctx)
+            return _Worker()
         except BaseException:
             with self._lock:
                 self._count -= 1
@@ -166,7 +192,7 @@ class _Pool:
             raise ServerBusy(f"the server is busy with other solves and studies; {what.lower()} "
                              f"could not start within {budget_s:g} s. Try again shortly.")
         try:
-            worker.conn.send((fn, args, kwargs))
+            worker.send.send((fn, args, kwargs))
             if not worker.conn.poll(max(0.0, deadline - time.monotonic())):
                 log.warning("%s stopped at its budget of %g s", what, budget_s)
                 self._drop(worker)
