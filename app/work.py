@@ -70,7 +70,12 @@ ROOT = Path(__file__).resolve().parents[1]
 
 def _child_main(read_fd: int, write_fd: int) -> None:
     """The child's loop: calls in on one pipe, answers out on the other, until the parent goes."""
-    _child(Connection(read_fd, writable=False), Connection(write_fd, readable=False))
+    import engine.solve  # noqa: F401 - imported before "ready": a call's budget is all solving
+    import engine.study  # noqa: F401
+
+    out = Connection(write_fd, readable=False)
+    out.send(("ready",))
+    _child(Connection(read_fd, writable=False), out)
 
 
 def _child(conn, out=None) -> None:
@@ -114,6 +119,9 @@ def _raise(answer: tuple) -> None:
 
 # --- the parent side ----------------------------------------------------------------------
 
+START_TIMEOUT_S = 120
+
+
 class _Worker:
     """One child process: ``python -c`` running :func:`_child_main` on two pipes."""
 
@@ -135,6 +143,15 @@ class _Worker:
             os.close(from_child_w)
         self.send = Connection(to_child_w, readable=False)
         self.conn = Connection(from_child_r, writable=False)
+        try:  # the engine imported: not counted in any call's budget
+            if not self.conn.poll(START_TIMEOUT_S) or self.conn.recv() != ("ready",):
+                raise RuntimeError(f"a solve process did not start within {START_TIMEOUT_S} s")
+        except (EOFError, OSError) as exc:
+            self.stop()
+            raise RuntimeError(f"a solve process could not start ({exc!r})") from None
+        except BaseException:
+            self.stop()
+            raise
 
     def stop(self) -> None:
         try:
@@ -183,14 +200,26 @@ class _Pool:
         with self._lock:
             self._count -= 1
         worker.stop()
+        threading.Thread(target=self._replace, daemon=True).start()  # the next call finds one ready
+
+    def _replace(self) -> None:
+        with self._lock:
+            if self._count >= self.size:
+                return
+            self._count += 1
+        try:
+            self._idle.put(_Worker())
+        except Exception:  # noqa: BLE001 - the next call starts one itself (and reports)
+            with self._lock:
+                self._count -= 1
+            log.exception("could not start a solve process")
 
     def call(self, fn: Callable, args: tuple, kwargs: dict, *, budget_s: float, what: str) -> Any:
-        start = time.monotonic()
-        deadline = start + budget_s
-        worker = self._take(deadline)
+        worker = self._take(time.monotonic() + budget_s)  # waiting for a free child: busy
         if worker is None:
             raise ServerBusy(f"the server is busy with other solves and studies; {what.lower()} "
                              f"could not start within {budget_s:g} s. Try again shortly.")
+        deadline = time.monotonic() + budget_s
         try:
             worker.send.send((fn, args, kwargs))
             if not worker.conn.poll(max(0.0, deadline - time.monotonic())):

@@ -95,6 +95,7 @@ def budget_server(tmp_path):
 def test_health_answers_while_a_heavy_solve_runs_and_the_solve_stops_at_its_budget(budget_server):
     url = budget_server
     out: dict = {}
+    assert _post(url + "/api/solve", pages.demo_design())[0] == 200  # the solve processes are up
 
     def heavy():
         t0 = time.perf_counter()
@@ -116,7 +117,7 @@ def test_health_answers_while_a_heavy_solve_runs_and_the_solve_stops_at_its_budg
     status, body = out["answer"]
     assert status == 413, body
     assert "time budget of 1 s" in body["errors"][0]["message"]
-    assert out["elapsed"] < 4.0, f"the solve was not stopped at its budget ({out['elapsed']:.1f} s)"
+    assert out["elapsed"] < 3.5, f"the solve was not stopped at its budget ({out['elapsed']:.1f} s)"
     # the server carries on: a light solve right after is answered
     status, body = _post(url + "/api/solve", pages.demo_design())
     assert status == 200 and body["load_cases"]
