@@ -160,16 +160,23 @@ def editor_page(request: Request, units_: str | None = None) -> HTMLResponse:
 async def editor_solve(request: Request) -> HTMLResponse:
     """One live edit: the whole form in, the out-of-band fragments out (422 when invalid)."""
     form = _form_of(await request.form())
-    ctx = await run_in_threadpool(solve_form, form)  # never on the event loop
-    return templates.TemplateResponse(request, "partials/live.html", ctx,
-                                      status_code=200 if ctx["result"] is not None else 422)
+
+    def answer() -> HTMLResponse:  # solve and render off the event loop
+        ctx = solve_form(form)
+        return templates.TemplateResponse(request, "partials/live.html", ctx,
+                                          status_code=200 if ctx["result"] is not None else 422)
+
+    return await run_in_threadpool(answer)
 
 
 @router.post("/editor/op", response_class=HTMLResponse)
 async def editor_op(request: Request) -> HTMLResponse:
     """A structural edit: the editor form re-rendered, plus the live fragments."""
-    raw = await request.form()
-    form = _form_of(raw)
+    form = _form_of(await request.form())
+    return await run_in_threadpool(_editor_op, request, form)
+
+
+def _editor_op(request: Request, form: dict[str, str]) -> HTMLResponse:
     op = form.pop("op", "")
     if op == "units":
         op = "units:" + form.pop("to_units", "si")
@@ -178,7 +185,7 @@ async def editor_op(request: Request) -> HTMLResponse:
         form, focus = web.upgrade_form(form), None
     else:
         form, focus = web.apply_op(form, op)
-    ctx = await run_in_threadpool(solve_form, form)
+    ctx = solve_form(form)
     focus_id = None
     if focus:
         focus_id = ("op-" + web.slug(focus)) if ":" in focus else ("f-" + web.slug(focus))

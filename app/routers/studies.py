@@ -260,23 +260,31 @@ def _fragment(request: Request, name: str, ctx: dict, status_code: int = 200) ->
 async def study_run(request: Request) -> HTMLResponse:
     """Run the study of the page's form: the plots and the table (422: the messages)."""
     form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
-    try:
-        res = await run_in_threadpool(lambda: _bounded(run_study, _form_design(form), _vary_of(form)))
-    except DesignError as exc:
-        return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
-    ctx = {"res": res, "plot_json": json.dumps(_clean(study_plot(res))), "table": _table(res)}
-    return _fragment(request, "partials/study_result.html", ctx)
+
+    def answer() -> HTMLResponse:  # the study, its plots and the page fragment, off the event loop
+        try:
+            res = _bounded(run_study, _form_design(form), _vary_of(form))
+        except DesignError as exc:
+            return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
+        ctx = {"res": res, "plot_json": json.dumps(_clean(study_plot(res))), "table": _table(res)}
+        return _fragment(request, "partials/study_result.html", ctx)
+
+    return await run_in_threadpool(answer)
 
 
 @router.post("/study/arrangements", response_class=HTMLResponse)
 async def study_arrangements(request: Request) -> HTMLResponse:
     """The arrangement comparison of the page's design (fragment)."""
     form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
-    try:
-        cmp = await run_in_threadpool(lambda: _bounded(compare_arrangements, _form_design(form)))
-    except DesignError as exc:
-        return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
-    return _fragment(request, "partials/study_arrangements.html", {"cmp": cmp})
+
+    def answer() -> HTMLResponse:
+        try:
+            cmp = _bounded(compare_arrangements, _form_design(form))
+        except DesignError as exc:
+            return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
+        return _fragment(request, "partials/study_arrangements.html", {"cmp": cmp})
+
+    return await run_in_threadpool(answer)
 
 
 @router.post("/study/apply", response_class=HTMLResponse)
