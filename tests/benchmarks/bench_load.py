@@ -14,6 +14,10 @@ fixed time (default 60 s), each on its own keep-alive connection, each picking a
   it merges three ways (201 with ``merged_from``);
 - study  (3 %): ``POST /api/study``, one support position at 7 values.
 
+Between two requests a client waits ``--think-ms`` (default 300 ms, the editor's debounce:
+the page sends a live edit at most that often) plus up to 200 ms of jitter; ``--think-ms 0``
+gives a closed loop with no pause at all, which measures saturation rather than a team.
+
 An error is any answer other than the expected status (or a broken connection). Prints, per
 client count, the figures per kind (count, median, p95, max), throughput and the load average
 before and after (the machine may be shared). Bounded: it stops after ``--seconds`` per run.
@@ -83,8 +87,10 @@ def _json(conn, method: str, path: str, body: dict | None = None) -> tuple[int, 
 
 
 class Client(threading.Thread):
-    def __init__(self, k: int, url: str, until: float, design_id: str, gear_key: str, x0: float):
+    def __init__(self, k: int, url: str, until: float, design_id: str, gear_key: str, x0: float,
+                 think_s: float = 0.3):
         super().__init__(daemon=True)
+        self.think_s = think_s
         self.k, self.until, self.did = k, until, design_id
         u = urllib.parse.urlparse(url)
         self.host, self.port = u.hostname, u.port
@@ -121,6 +127,8 @@ class Client(threading.Thread):
             self.times[kind].append(dt)
             if ok is not True:
                 self.errors.append(f"{kind}: {ok}")
+            if self.think_s:
+                time.sleep(self.think_s + self.rng.random() * 0.2)
         conn.close()
 
     def _edit(self, conn) -> bool | str:
@@ -176,7 +184,7 @@ def _pct(xs: list[float], p: float) -> float:
     return xs[min(len(xs) - 1, int(round(p * (len(xs) - 1))))] if xs else float("nan")
 
 
-def run(url: str, clients: int, seconds: float) -> dict:
+def run(url: str, clients: int, seconds: float, think_s: float = 0.3) -> dict:
     form = web.design_to_form(demo_design(), "si")
     i = next(k for k in range(100) if form.get(f"elements[{k}].kind") == "gear")
     gear_key = f"elements[{i}].x_mm"
@@ -189,14 +197,15 @@ def run(url: str, clients: int, seconds: float) -> dict:
     conn.close()
     load_before = os.getloadavg()
     until = time.monotonic() + seconds
-    threads = [Client(k, url, until, ids[k], gear_key, float(form[gear_key])) for k in range(clients)]
+    threads = [Client(k, url, until, ids[k], gear_key, float(form[gear_key]), think_s)
+               for k in range(clients)]
     t0 = time.perf_counter()
     for t in threads:
         t.start()
     for t in threads:
         t.join()
     wall = time.perf_counter() - t0
-    out: dict = {"clients": clients, "seconds": round(wall, 1),
+    out: dict = {"clients": clients, "seconds": round(wall, 1), "think_ms": round(think_s * 1000),
                  "load_avg_before": [round(x, 2) for x in load_before],
                  "load_avg_after": [round(x, 2) for x in os.getloadavg()], "cpus": os.cpu_count()}
     total = 0
@@ -218,11 +227,13 @@ def main(argv: list[str] | None = None) -> int:
     ap.add_argument("--seconds", type=float, default=60.0, help="length of each run")
     ap.add_argument("--workers", type=int, default=4, help="serve --workers")
     ap.add_argument("--db", default="", help="a store URL (default: a fresh SQLite file)")
+    ap.add_argument("--think-ms", type=float, default=300.0, help="pause between a client's requests")
     args = ap.parse_args(argv)
     with tempfile.TemporaryDirectory() as tmp:
         proc, url = start(args.workers, args.db or str(Path(tmp) / "bench.db"))
         try:
-            results = [run(url, int(n), args.seconds) for n in args.clients.split(",")]
+            results = [run(url, int(n), args.seconds, args.think_ms / 1000)
+                       for n in args.clients.split(",")]
         finally:
             proc.terminate()
             try:
