@@ -432,7 +432,8 @@ class SqliteStore(_SqlStore):
             try:
                 yield con
             except BaseException:
-                con.execute("ROLLBACK")
+                if con.in_transaction:  # SQLite has already rolled back after e.g. a full disk
+                    con.execute("ROLLBACK")
                 raise
             con.execute("COMMIT")
 

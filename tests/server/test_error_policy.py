@@ -180,3 +180,32 @@ def test_htmx_is_configured_to_show_error_answers(client):
     rules = {r["code"]: r for r in config["responseHandling"]}
     assert rules["[45].."]["swap"] is True
     assert 'id="sw-alert"' in page and "/static/js/alerts.js" in page
+
+
+def test_full_store_is_503_in_words_and_saves_resume_when_there_is_room(tmp_path, monkeypatch):
+    """SQLite's own "database or disk is full" (a page-count cap stands in for the disk)."""
+    import sqlite3
+
+    from app import store as store_mod
+
+    db = tmp_path / "full.db"
+    app = create_app()
+    app.dependency_overrides[get_settings] = lambda: Settings(db=str(db))
+    client = TestClient(app, raise_server_exceptions=False)
+    design = pages.demo_design()
+    did = client.post("/api/designs", json=design).json()["id"]
+    pages_now = sqlite3.connect(db).execute("PRAGMA page_count").fetchone()[0]
+    real_connect = sqlite3.connect
+
+    def capped(*a, **k):
+        con = real_connect(*a, **k)
+        con.execute(f"PRAGMA max_page_count={pages_now}")  # no room for one more page
+        return con
+    monkeypatch.setattr(store_mod.sqlite3, "connect", capped)
+    big = {**design, "notes": "x" * 15000}
+    r = client.post(f"/api/designs/{did}/revisions", json={"design": big, "base_revision": 1})
+    assert r.status_code == 503 and r.headers["retry-after"] == "10"
+    assert "disk that holds the store is full" in r.json()["detail"]
+    monkeypatch.setattr(store_mod.sqlite3, "connect", real_connect)  # room again; no restart
+    r = client.post(f"/api/designs/{did}/revisions", json={"design": big, "base_revision": 1})
+    assert r.status_code == 201 and r.json()["revision"] == 2
