@@ -502,8 +502,45 @@ def _shown(value: Any) -> str:
     return text if len(text) <= 160 else text[:157] + "…"
 
 
+_ROWS = {"supports": "support", "elements": "part", "load_cases": "load case",
+         "shaft.segments": "segment", "shaft.grooves": "groove"}
+
+
+def key_words(path: str) -> str:
+    """A design key in the designer's words: ``supports[A].x_mm`` → "support A · position x
+    [mm]" (the editor's own labels); a key the editor does not show keeps its name."""
+    from app import units, web
+
+    fields: dict[str, Any] = {}
+    for group in (web.TOP_FIELDS, web.SEGMENT_FIELDS, web.SUPPORT_FIELDS, web.LOAD_CASE_FIELDS,
+                  web.REQUIREMENT_FIELDS, *web.ELEMENT_FIELDS.values()):
+        for f in group:
+            fields.setdefault(f.key, f)
+    m = re.fullmatch(r"(supports|elements|load_cases|shaft\.segments|shaft\.grooves)\[([^\]]*)\](?:\.(.+))?", path)
+    if m:
+        what, label, rest = m.groups()
+        label = str(int(label) + 1) if what.startswith("shaft.") and label.isdigit() else label
+        head = f"{_ROWS[what]} {label}"
+        if rest is None:
+            return f"{head} (the whole row)"
+        f = fields.get(rest)
+        unit = units.unit_label(f.quantity) if f is not None else ""
+        return f"{head} · {f.label if f else rest}" + (f" [{unit}]" if unit else "")
+    if path.startswith("shaft.material."):
+        f = next((f for f in web.MATERIAL_FIELDS if f.key == path.rsplit(".", 1)[1]), None)
+        if f is not None:
+            unit = units.unit_label(f.quantity)
+            return f"material · {f.label}" + (f" [{unit}]" if unit else "")
+    f = fields.get(path.rsplit(".", 1)[-1]) if path.count(".") <= 1 else None
+    if f is not None:
+        unit = units.unit_label(f.quantity)
+        return f.label + (f" [{unit}]" if unit else "")
+    return path.replace(".", " · ")
+
+
 def _clash_view(clash, resolutions: dict[str, str]) -> dict[str, Any]:
-    return {"path": clash.path, "field": _RESOLVE + clash.path, "base": _shown(clash.base),
+    return {"path": clash.path, "label": key_words(clash.path), "field": _RESOLVE + clash.path,
+            "base": _shown(clash.base),
             "theirs": _shown(clash.theirs), "mine": _shown(clash.mine),
             "choice": resolutions.get(clash.path, "")}
 
@@ -522,8 +559,9 @@ def _merge_report(store: Store, design_id: str, latest: Revision, conflict_id: i
         return None
     merge = merge3(base.document, theirs.document, kept.document)
     return {"revision": n, "theirs_n": theirs.n, "theirs_author": theirs.author,
-            "yours": merge.keys_from("mine"), "theirs": merge.keys_from("theirs"),
-            "chosen": [c.path for c in merge.clashes], "stale": latest.n != n}
+            "yours": [key_words(k) for k in merge.keys_from("mine")],
+            "theirs": [key_words(k) for k in merge.keys_from("theirs")],
+            "chosen": [key_words(c.path) for c in merge.clashes]}
 
 
 def _panel(request: Request, share: dict, status: int) -> HTMLResponse:
