@@ -42,7 +42,7 @@ from app.limits import LimitError, check_work
 from app.settings import get_settings
 from engine.model import DesignError, EngineError, Issue
 
-__all__ = ["BudgetExceeded", "ServerBusy", "run_bounded", "solve", "clear_cache", "shutdown",
+__all__ = ["BudgetExceeded", "EngineFault", "ServerBusy", "run_bounded", "solve", "clear_cache", "shutdown",
            "warm_up"]
 
 log = logging.getLogger("shaftwright.work")
@@ -57,6 +57,11 @@ class BudgetExceeded(LimitError):
                              "mesh in analysis.elements, a shorter bearing table, fewer study "
                              "points) or ask whoever runs the server for a longer budget.",
                          status_code=413)
+
+
+class EngineFault(RuntimeError):
+    """The engine failed in a child process (a bug, not bad input): the message names the
+    original exception (``ZeroDivisionError: …``); its traceback went to the server's log."""
 
 
 class ServerBusy(Exception):
@@ -114,7 +119,8 @@ def _raise(answer: tuple) -> None:
             err.args = ("; ".join(f"{i.path}: {i.message}" for i in issues),)
             raise err
         raise DesignError(issues)
-    raise RuntimeError(f"the engine failed in a worker process: {answer[1]}\n{answer[2]}")
+    log.error("engine fault in a solve process: %s\n%s", answer[1], answer[2])
+    raise EngineFault(answer[1])
 
 
 # --- the parent side ----------------------------------------------------------------------

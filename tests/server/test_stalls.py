@@ -152,3 +152,26 @@ def test_a_page_read_does_not_solve_again(monkeypatch):
     work.solve(d)
     work.solve(copy.deepcopy(d))
     assert len(calls) == 1
+
+
+def _faulty(x: float) -> float:
+    return x / 0.0 if x else 1.0  # ZeroDivisionError: a bug in the child, not bad input
+
+
+def test_a_fault_in_a_solve_process_comes_back_by_name_and_the_api_answers_in_words(monkeypatch, caplog):
+    from app import work
+    from app.routers import api
+
+    with pytest.raises(work.EngineFault, match="ZeroDivisionError: float division by zero"):
+        work.run_bounded(_faulty, 1.0, budget_s=30, what="A test")
+    assert "Traceback" in caplog.text  # the child's traceback is in the server's log
+    assert work.run_bounded(_faulty, 0.0, budget_s=30, what="A test") == 1.0  # the child lives on
+    monkeypatch.setattr(work, "_solve_in_child", _solve_faulty)
+    work.clear_cache()
+    code, body = api.solve_document(pages.demo_design())
+    assert code == 422 and "ZeroDivisionError" in body["errors"][0]["message"]
+    assert "Traceback" not in body["errors"][0]["message"]
+
+
+def _solve_faulty(design, catalogue=None):
+    return _faulty(1.0)
