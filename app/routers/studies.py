@@ -265,7 +265,8 @@ async def study_run(request: Request) -> HTMLResponse:
         try:
             res = _bounded(run_study, _form_design(form), _vary_of(form))
         except DesignError as exc:
-            return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
+            return _fragment(request, "partials/study_errors.html", {"issues": exc.errors},
+                             getattr(exc, "status_code", 422))
         ctx = {"res": res, "plot_json": json.dumps(_clean(study_plot(res))), "table": _table(res)}
         return _fragment(request, "partials/study_result.html", ctx)
 
@@ -281,7 +282,8 @@ async def study_arrangements(request: Request) -> HTMLResponse:
         try:
             cmp = _bounded(compare_arrangements, _form_design(form))
         except DesignError as exc:
-            return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
+            return _fragment(request, "partials/study_errors.html", {"issues": exc.errors},
+                             getattr(exc, "status_code", 422))
         return _fragment(request, "partials/study_arrangements.html", {"cmp": cmp})
 
     return await run_in_threadpool(answer)

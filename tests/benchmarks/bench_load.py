@@ -58,13 +58,13 @@ def _free_port() -> int:
         return s.getsockname()[1]
 
 
-def start(workers: int, db: str) -> tuple[subprocess.Popen, str]:
+def start(workers: int, db: str, log_path: Path) -> tuple[subprocess.Popen, str]:
     port = _free_port()
     env = dict(os.environ, SHAFTWRIGHT_DB=db, PYTHONPATH=str(ROOT))
     proc = subprocess.Popen([sys.executable, "-m", "app.cli", "serve", "--host", "127.0.0.1",
                              "--port", str(port), "--workers", str(workers)],
                             cwd=str(ROOT), env=env, stdout=subprocess.DEVNULL,
-                            stderr=subprocess.DEVNULL)
+                            stderr=open(log_path, "w"))
     url = f"http://127.0.0.1:{port}"
     deadline = time.monotonic() + 60
     while time.monotonic() < deadline:
@@ -230,7 +230,8 @@ def main(argv: list[str] | None = None) -> int:
     ap.add_argument("--think-ms", type=float, default=300.0, help="pause between a client's requests")
     args = ap.parse_args(argv)
     with tempfile.TemporaryDirectory() as tmp:
-        proc, url = start(args.workers, args.db or str(Path(tmp) / "bench.db"))
+        log_path = Path(tmp) / "server.log"
+        proc, url = start(args.workers, args.db or str(Path(tmp) / "bench.db"), log_path)
         try:
             results = [run(url, int(n), args.seconds, args.think_ms / 1000)
                        for n in args.clients.split(",")]
@@ -240,10 +241,14 @@ def main(argv: list[str] | None = None) -> int:
                 proc.wait(timeout=15)
             except subprocess.TimeoutExpired:
                 proc.kill()
+        logged = [ln for ln in log_path.read_text(errors="replace").splitlines()
+                  if "error" in ln.lower() or "warning" in ln.lower() or "stopped" in ln]
     for r in results:
         print(json.dumps(r))
     first = next((r for r in results if r["clients"] == 20), results[0])
     ok = first["errors"] == 0 and first["edit"]["p95_ms"] is not None and first["edit"]["p95_ms"] <= 150
+    if logged:
+        print(f"server log: {len(logged)} error/warning lines, the first: " + " | ".join(logged[:5]))
     print(f"{first['clients']} clients: {first['errors']} errors, edit p95 {first['edit']['p95_ms']} ms: "
           f"{'meets' if ok else 'MISSES'} the target (0 errors, edit p95 <= 150 ms)")
     return 0

@@ -175,3 +175,22 @@ def test_a_fault_in_a_solve_process_comes_back_by_name_and_the_api_answers_in_wo
 
 def _solve_faulty(design, catalogue=None):
     return _faulty(1.0)
+
+
+def test_a_study_stops_at_its_budget_with_a_message(monkeypatch):
+    from app.routers import studies
+    from app.settings import Settings
+
+    monkeypatch.setattr(studies, "get_settings", lambda: Settings(study_budget_s=0.5))
+    client = TestClient(create_app())
+    heavy = _heavy(elements=2000, cases=20)
+    x = heavy["supports"][-1]["x_mm"]
+    t0 = time.perf_counter()
+    r = client.post("/api/study", json={"design": heavy,
+                                        "vary": [f"supports.{heavy['supports'][-1]['id']}.x_mm={x - 20}:{x}:21"]})
+    assert time.perf_counter() - t0 < 5.0
+    assert r.status_code == 413
+    assert "The study did not finish within its time budget of 0.5 s" in r.json()["errors"][0]["message"]
+    r = client.post("/study/run", data={"design": json.dumps(heavy), "var1": f"supports.{heavy['supports'][-1]['id']}.x_mm",
+                                        "range1": f"{x - 20}:{x}:21"}, headers={"HX-Request": "true"})
+    assert r.status_code == 413 and 'id="study-errors"' in r.text and "time budget" in r.text
