@@ -310,6 +310,7 @@ def run_bounded(fn: Callable, *args: Any, budget_s: float, what: str, **kwargs: 
 _CACHE: "OrderedDict[str, Any]" = OrderedDict()
 _CACHE_LOCK = threading.Lock()
 _CACHE_SIZE = 128
+BUDGET_MEMORY_S = 60.0  # how long a solve that ran out of time is answered from memory
 
 
 def clear_cache() -> None:
@@ -326,8 +327,8 @@ def solve(design_data: Any, *, catalogue: Any = None) -> Any:
 
     Bad input raises :class:`DesignError` as :func:`engine.solve` does; a design that would
     take too much work raises :class:`LimitError` (413) before any solving; one that runs
-    past the budget raises :class:`BudgetExceeded` (and that answer is cached too, so
-    reading its page again costs nothing)."""
+    past the budget raises :class:`BudgetExceeded` (remembered for ``BUDGET_MEMORY_S``, so
+    reading its page again soon after costs nothing, and tried again later)."""
     design = engine.parse_design(design_data)
     check_work(design)
     key = hashlib.sha256(design.model_dump_json().encode("utf-8")).hexdigest()
@@ -336,7 +337,11 @@ def solve(design_data: Any, *, catalogue: Any = None) -> Any:
             hit = _CACHE.get(key)
             if hit is not None:
                 _CACHE.move_to_end(key)
+        if isinstance(hit, tuple) and hit[1] < time.monotonic():
+            hit = None  # a budget failure is remembered for a while only: the server may have been busy
         if hit is not None:
+            if isinstance(hit, tuple):
+                raise hit[0].with_traceback(None)
             if isinstance(hit, BaseException):
                 raise hit.with_traceback(None)
             return hit
@@ -348,7 +353,8 @@ def solve(design_data: Any, *, catalogue: Any = None) -> Any:
         outcome = exc
     if catalogue is None:
         with _CACHE_LOCK:
-            _CACHE[key] = outcome
+            _CACHE[key] = ((outcome, time.monotonic() + BUDGET_MEMORY_S)
+                           if isinstance(outcome, BudgetExceeded) else outcome)
             if len(_CACHE) > _CACHE_SIZE:
                 _CACHE.popitem(last=False)
     if isinstance(outcome, BaseException):
