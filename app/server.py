@@ -36,6 +36,8 @@ def run(host: str = DEFAULT_HOST, port: int = DEFAULT_PORT, *, log_level: str = 
 
     if workers < 1:
         raise ValueError("workers must be 1 or more")
+    if workers > 1:  # the CPUs shared out: about one solve process per CPU in all, at least one each
+        os.environ.setdefault("SHAFTWRIGHT_SOLVE_PROCESSES", str(max(1, (os.cpu_count() or 1) // workers)))
     print(f"Shaftwright: open http://{host}:{port}/ (Ctrl+C stops)"
           + (f"; {workers} worker processes" if workers > 1 else ""), flush=True)
     uvicorn.run("app.main:create_app", factory=True, host=host, port=int(port), log_level=log_level,
