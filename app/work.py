@@ -255,25 +255,27 @@ class _Pool:
             self._drop(worker)
 
 
-_POOL: _Pool | None = None
+_POOLS: dict[str, _Pool] = {}
 _POOL_LOCK = threading.Lock()
 
 
-def _pool() -> _Pool:
-    global _POOL
+def _pool(kind: str = "solve") -> _Pool:
+    """The pool of ``kind``: "solve" (edits, pages, the API's solve) or "study" (studies and
+    arrangement comparisons), apart so that a long study never keeps an edit waiting."""
     with _POOL_LOCK:
-        if _POOL is None or _POOL._pid != os.getpid():  # a forked server worker needs its own
-            _POOL = _Pool(get_settings().solve_processes)
-        return _POOL
+        pool = _POOLS.get(kind)
+        if pool is None or pool._pid != os.getpid():  # a forked server worker needs its own
+            pool = _POOLS[kind] = _Pool(get_settings().solve_processes)
+        return pool
 
 
 def shutdown() -> None:
     """Stop the child processes (they also end with the server)."""
-    global _POOL
     with _POOL_LOCK:
-        if _POOL is not None and _POOL._pid == os.getpid():
-            _POOL.shutdown()
-        _POOL = None
+        for pool in _POOLS.values():
+            if pool._pid == os.getpid():
+                pool.shutdown()
+        _POOLS.clear()
 
 
 def warm_up() -> None:
@@ -295,14 +297,16 @@ def warm_up() -> None:
     threading.Thread(target=all_of_them, name="shaftwright-warm-up", daemon=True).start()
 
 
-def run_bounded(fn: Callable, *args: Any, budget_s: float, what: str, **kwargs: Any) -> Any:
+def run_bounded(fn: Callable, *args: Any, budget_s: float, what: str, kind: str = "solve",
+                **kwargs: Any) -> Any:
     """``fn(*args, **kwargs)`` in a child process, stopped after ``budget_s`` seconds.
 
-    ``fn`` must be a module-level function and its arguments and value must pickle. Raises
+    ``fn`` must be a module-level function and its arguments and value must pickle; ``kind``
+    picks the pool ("solve" or "study"). Raises
     :class:`BudgetExceeded` when the budget is spent, the engine's :class:`DesignError`
     (and :class:`EngineError`, :class:`LimitError`) as raised in the child, and
     ``RuntimeError`` for any other failure (a 500 with an error id)."""
-    return _pool().call(fn, args, kwargs, budget_s=budget_s, what=what)
+    return _pool(kind).call(fn, args, kwargs, budget_s=budget_s, what=what)
 
 
 # --- solve, bounded and cached -------------------------------------------------------------

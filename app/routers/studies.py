@@ -70,7 +70,8 @@ def decode_design(text: str) -> Any:
 
 def _bounded(fn, *args) -> Any:
     """A study's work in a child process, stopped at the study budget (app.work)."""
-    return work.run_bounded(fn, *args, budget_s=get_settings().study_budget_s, what="The study")
+    return work.run_bounded(fn, *args, budget_s=get_settings().study_budget_s, what="The study",
+                            kind="study")
 
 
 def _guard(data: Any) -> Any:

@@ -165,7 +165,7 @@ def test_api_solve_answers_an_engine_fault_with_an_errors_list(client, monkeypat
                         lambda a: (_ for _ in ()).throw(ZeroDivisionError("boom")))
     # the patch lives in this process: run the bounded solve here rather than in a child
     # (the child's fault reaches the API the same way: tests/server/test_stalls.py)
-    monkeypatch.setattr(work, "run_bounded", lambda fn, *a, budget_s, what, **k: fn(*a, **k))
+    monkeypatch.setattr(work, "run_bounded", lambda fn, *a, budget_s, what, kind="solve", **k: fn(*a, **k))
     work.clear_cache()
     r = client.post("/api/solve", json=load_sample("countershaft.json"))
     assert r.status_code == 422
