@@ -77,7 +77,9 @@ async def api_solve(request: Request) -> JSONResponse:
 
 
 @router.get("/api/health", tags=["api"], summary="Liveness and versions")
-def api_health() -> dict:
+async def api_health() -> dict:
+    """On the event loop on purpose: no store, no engine, so it answers even when every
+    thread of the pool waits for a solve."""
     return {"status": "ok", "engine_version": engine.__version__,
             "formats": {"design": "shaft-design/1", "result": "shaft-result/1"}}
 
