@@ -51,7 +51,7 @@ def cmd_serve(args: argparse.Namespace) -> int:
     if not 0 < port < 65536:
         raise InputError("", f"--port must be 1 to 65535, not {port}")
     _check_free(args.host, port)
-    run(host=args.host, port=port)
+    run(host=args.host, port=port, workers=args.workers)
     return 0
 
 
@@ -114,6 +114,8 @@ def build_parser() -> argparse.ArgumentParser:
                         "0.0.0.0 serves every network the machine is on)")
     p.add_argument("--port", type=int, default=None, metavar="N",
                    help="TCP port to listen on (default SHAFTWRIGHT_PORT, else 8000)")
+    p.add_argument("--workers", type=int, default=1, metavar="N",
+                   help="server processes sharing the port (SQLite or PostgreSQL; see docs/deployment.md)")
     p.set_defaults(func=cmd_serve)
     p = sub.add_parser("note", help="print a design's note to PDF through headless Chromium",
                        description="Print a design file's design note to PDF (A4) through headless "

@@ -1,12 +1,14 @@
 """Build the FastAPI application: ``create_app()`` includes one router per feature."""
 from __future__ import annotations
 
+from contextlib import asynccontextmanager
 from pathlib import Path
 
 from fastapi import FastAPI
 from fastapi.staticfiles import StaticFiles
 
 import engine
+from app import errors, work
 from app.routers import api, designs, pages, studies
 from app.schema import install_openapi
 
@@ -22,4 +24,13 @@ def create_app() -> FastAPI:
     for module in (pages, api, designs, studies):
         app.include_router(module.router)
     install_openapi(app)  # the API's bodies described by the engine's models (app/schema.py)
+    errors.install(app)  # one error policy for every route (app/errors.py)
+    app.router.lifespan_context = _lifespan  # solve processes ready before the first edit
     return app
+
+
+@asynccontextmanager
+async def _lifespan(app: FastAPI):
+    work.warm_up()
+    yield
+    work.shutdown()

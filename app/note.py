@@ -79,8 +79,10 @@ def solve_or_errors(document: dict | Design) -> tuple[Design | None, Result | No
         design = parse_design(document)
     except DesignError as exc:
         return None, None, list(exc.errors)
+    from app import work  # the bounded, cached solve: a stored revision is solved once
+
     try:
-        return design, engine.solve(design), []
+        return design, work.solve(design), []
     except DesignError as exc:
         return design, None, list(exc.errors)
 

@@ -23,14 +23,25 @@ def limit_blas_threads(n: int = 1) -> None:
         os.environ.setdefault(var, str(n))
 
 
-def run(host: str = DEFAULT_HOST, port: int = DEFAULT_PORT, *, log_level: str = "info") -> None:
-    """Serve the designer on ``http://host:port/`` until interrupted (loopback by default)."""
+def run(host: str = DEFAULT_HOST, port: int = DEFAULT_PORT, *, log_level: str = "info",
+        workers: int = 1) -> None:
+    """Serve the designer on ``http://host:port/`` until interrupted (loopback by default).
+
+    ``workers`` > 1 starts that many server processes on the one port (uvicorn's process
+    manager); each has its own solve processes (app.work) and result cache. They share the
+    store: SQLite serialises their saves (WAL, one writer at a time), PostgreSQL locks per
+    design; see docs/deployment.md."""
     limit_blas_threads()
     import uvicorn
 
-    print(f"Shaftwright: open http://{host}:{port}/ (Ctrl+C stops)", flush=True)
+    if workers < 1:
+        raise ValueError("workers must be 1 or more")
+    if workers > 1:  # the CPUs shared out: about one solve process per CPU in all, at least one each
+        os.environ.setdefault("SHAFTWRIGHT_SOLVE_PROCESSES", str(max(1, (os.cpu_count() or 1) // workers)))
+    print(f"Shaftwright: open http://{host}:{port}/ (Ctrl+C stops)"
+          + (f"; {workers} worker processes" if workers > 1 else ""), flush=True)
     uvicorn.run("app.main:create_app", factory=True, host=host, port=int(port), log_level=log_level,
-                access_log=False)
+                access_log=False, workers=workers)
 
 
 if __name__ == "__main__":
@@ -38,5 +49,6 @@ if __name__ == "__main__":
     ap.add_argument("--host", default=DEFAULT_HOST)
     ap.add_argument("--port", type=int, default=DEFAULT_PORT)
     ap.add_argument("--log-level", default="warning")
+    ap.add_argument("--workers", type=int, default=1)
     a = ap.parse_args()
-    run(a.host, a.port, log_level=a.log_level)
+    run(a.host, a.port, log_level=a.log_level, workers=a.workers)

@@ -14,6 +14,10 @@ Environment variables:
   Default ``/usr/bin/chromium``.
 - ``SHAFTWRIGHT_MAX_DOCUMENT_BYTES`` (default 1 000 000) and ``SHAFTWRIGHT_MAX_ITEMS``
   (default 500): the limits on an incoming design document (see :mod:`app.limits`).
+- ``SHAFTWRIGHT_SOLVE_BUDGET_S`` (default 10) and ``SHAFTWRIGHT_STUDY_BUDGET_S`` (default
+  120): the time after which a solve or a study is stopped and the user told why;
+  ``SHAFTWRIGHT_SOLVE_PROCESSES`` (default: the number of CPUs): the child processes per
+  server worker that run them (see :mod:`app.work`).
 """
 from __future__ import annotations
 
@@ -34,6 +38,9 @@ class Settings:
     chromium: str = "/usr/bin/chromium"
     max_document_bytes: int = 1_000_000
     max_items: int = 500
+    solve_budget_s: float = 10.0
+    study_budget_s: float = 120.0
+    solve_processes: int = max(1, os.cpu_count() or 1)
 
     @classmethod
     def from_env(cls, env: dict[str, str] | None = None) -> "Settings":
@@ -43,6 +50,9 @@ class Settings:
             chromium=env.get("SHAFTWRIGHT_CHROMIUM") or "/usr/bin/chromium",
             max_document_bytes=_int(env, "SHAFTWRIGHT_MAX_DOCUMENT_BYTES", 1_000_000),
             max_items=_int(env, "SHAFTWRIGHT_MAX_ITEMS", 500),
+            solve_budget_s=_float(env, "SHAFTWRIGHT_SOLVE_BUDGET_S", 10.0),
+            study_budget_s=_float(env, "SHAFTWRIGHT_STUDY_BUDGET_S", 120.0),
+            solve_processes=_int(env, "SHAFTWRIGHT_SOLVE_PROCESSES", max(1, os.cpu_count() or 1)),
         )
 
 
@@ -56,6 +66,19 @@ def _int(env, key: str, default: int) -> int:
         raise ValueError(f"setting {key} must be a whole number, got {raw!r}") from None
     if value <= 0:
         raise ValueError(f"setting {key} must be positive, got {value}")
+    return value
+
+
+def _float(env, key: str, default: float) -> float:
+    raw = env.get(key)
+    if not raw:
+        return default
+    try:
+        value = float(raw)
+    except ValueError:
+        raise ValueError(f"setting {key} must be a number of seconds, got {raw!r}") from None
+    if not value > 0 or value == float("inf"):
+        raise ValueError(f"setting {key} must be a positive number of seconds, got {raw!r}")
     return value
 
 

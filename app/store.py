@@ -46,7 +46,7 @@ from app.settings import Settings, get_settings
 
 __all__ = [
     "Store", "SqliteStore", "PostgresStore", "Revision", "RevisionInfo", "ConflictRecord",
-    "StoreError", "NotFound", "StaleBase", "new_design_id", "is_design_id",
+    "StoreError", "StoreUnavailable", "NotFound", "StaleBase", "new_design_id", "is_design_id",
     "open_store", "get_store", "StoreDep", "ID_BYTES",
 ]
 
@@ -104,6 +104,29 @@ class ConflictRecord(_Frozen):
 
 class StoreError(Exception):
     """Base class of the store's errors."""
+
+
+class StoreUnavailable(StoreError):
+    """The store cannot be read or written just now (read-only file, full disk, locked,
+    server down). Nothing was saved; the same request can succeed once that is fixed, with
+    no restart: every operation opens its own connection."""
+
+
+def _unavailable(exc: Exception, where: str) -> StoreUnavailable:
+    text = str(exc).lower()
+    if "readonly" in text or "read-only" in text or "permission" in text:
+        why = "the store is read-only (check the permissions of the database file and its folder)"
+    elif "full" in text or "no space" in text:
+        why = "the disk that holds the store is full"
+    elif "locked" in text or "busy" in text:
+        why = "the store is busy with another save; try again"
+    elif "unable to open" in text:
+        why = "the database file cannot be opened (check that its folder exists and is writable)"
+    else:
+        why = f"the store cannot be reached ({str(exc).strip() or type(exc).__name__})"
+    err = StoreUnavailable(f"{why[0].upper()}{why[1:]}; nothing was changed.")
+    err.where = where  # for the server's log, not for the user
+    return err
 
 
 class NotFound(StoreError, KeyError):
@@ -380,26 +403,54 @@ class SqliteStore(_SqlStore):
 
     @contextmanager
     def _connect(self) -> Iterator[sqlite3.Connection]:
-        con = sqlite3.connect(self.path, timeout=self.busy_timeout_s, isolation_level=None)
+        try:
+            con = sqlite3.connect(self.path, timeout=self.busy_timeout_s, isolation_level=None)
+        except sqlite3.OperationalError as exc:
+            raise _unavailable(exc, str(self.path)) from None
         try:
             con.execute("PRAGMA foreign_keys=ON")
             con.execute("PRAGMA synchronous=FULL")
             yield con
+        except sqlite3.OperationalError as exc:
+            # read-only file or folder, full disk, I/O error, lock timeout: a 503, not a 500
+            raise _unavailable(exc, str(self.path)) from None
         finally:
             con.close()
 
     @contextmanager
     def _write(self) -> Iterator[sqlite3.Connection]:
         """One write transaction; BEGIN IMMEDIATE takes the file's write lock up front, which
-        also serialises the saves to each design (so :meth:`_lock_design` has nothing to do)."""
+        also serialises the saves to each design (so :meth:`_lock_design` has nothing to do).
+
+        Before it, :meth:`_repair_sidecars` makes the ``-wal``/``-shm`` files writable again
+        when the database file is: SQLite creates them with the database file's permissions,
+        so a read made while the file was read-only leaves them read-only, and every later
+        save would fail after the permissions were repaired."""
+        self._repair_sidecars()
         with self._connect() as con:
             con.execute("BEGIN IMMEDIATE")
             try:
                 yield con
             except BaseException:
-                con.execute("ROLLBACK")
+                if con.in_transaction:  # SQLite has already rolled back after e.g. a full disk
+                    con.execute("ROLLBACK")
                 raise
             con.execute("COMMIT")
+
+    def _repair_sidecars(self) -> None:
+        import os
+
+        try:
+            if not os.access(self.path, os.W_OK):
+                return
+            mode = self.path.stat().st_mode & 0o666
+            for side in (self.path.with_name(self.path.name + "-wal"),
+                         self.path.with_name(self.path.name + "-shm")):
+                st = side.stat() if side.exists() else None
+                if st is not None and not st.st_mode & 0o200 and st.st_uid == os.geteuid():
+                    side.chmod(mode)
+        except OSError:
+            pass  # the save itself will say what is wrong
 
     def _engine_problems(self, con) -> list[str]:
         return [r[0] for r in con.execute("PRAGMA integrity_check") if r[0] != "ok"]
@@ -468,10 +519,12 @@ class PostgresStore(_SqlStore):
             con = self._psycopg.connect(self.url, autocommit=True,
                                         connect_timeout=self.connect_timeout_s)
         except self._psycopg.OperationalError as exc:
-            raise StoreError(f"cannot reach the PostgreSQL store at {_redacted(self.url)}: "
-                             f"{str(exc).strip()}") from None
+            raise StoreUnavailable(f"cannot reach the PostgreSQL store at {_redacted(self.url)}: "
+                                   f"{str(exc).strip()}") from None
         try:
             yield con
+        except (self._psycopg.OperationalError, self._psycopg.errors.InsufficientResources) as exc:
+            raise _unavailable(exc, _redacted(self.url)) from None  # disk full, server gone
         finally:
             con.close()
 

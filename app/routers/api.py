@@ -17,7 +17,10 @@ from fastapi import APIRouter, Request
 from fastapi.responses import HTMLResponse, JSONResponse
 
 import engine
-from app.limits import LimitError, read_json
+from starlette.concurrency import run_in_threadpool
+
+from app import work
+from app.limits import parse_json, read_body
 from app.schema import body_model, schemas_html
 
 __all__ = ["router", "solve_document"]
@@ -35,20 +38,16 @@ _DESIGN_EXAMPLE = {
 }
 
 
-def _errors(issues: list[engine.Issue], status_code: int = 422) -> JSONResponse:
-    return JSONResponse(status_code=status_code,
-                        content={"errors": [{"path": i.path, "message": i.message} for i in issues]})
-
-
 def solve_document(data: Any) -> tuple[int, dict]:
     """Solve a design mapping: (200, result document) or (422, {"errors": [...]}).
 
     An engine fault (a bug, not bad input) is logged and answered like the editor answers it,
     as a message at the design's root, so that a client always gets an errors list."""
     try:
-        result = engine.solve(data)
+        result = work.solve(data)  # bounded in time, cached by content
     except engine.DesignError as exc:
-        return 422, {"errors": [{"path": i.path, "message": i.message} for i in exc.errors]}
+        return (getattr(exc, "status_code", 422),  # 413: too large or too much work
+                {"errors": [{"path": i.path, "message": i.message} for i in exc.errors]})
     except Exception as exc:  # noqa: BLE001 - never a bare 500 for a design
         log.exception("engine failed")
         return 422, {"errors": [{"path": "", "message": "the engine could not solve this design "
@@ -68,16 +67,20 @@ def solve_document(data: Any) -> tuple[int, dict]:
 )
 async def api_solve(request: Request) -> JSONResponse:
     """A design document in, a result document out (422 with key paths for bad input)."""
-    try:
-        data = await read_json(request)  # size, depth and count limits; JSON without NaN
-    except LimitError as exc:
-        return _errors(exc.errors, exc.status_code)
-    code, doc = solve_document(data)
-    return JSONResponse(status_code=code, content=doc)
+    raw = await read_body(request)
+
+    def answer() -> JSONResponse:
+        data = parse_json(raw)  # size, depth and count limits; JSON without NaN (else 413/422)
+        code, doc = solve_document(data)
+        return JSONResponse(status_code=code, content=doc)
+
+    return await run_in_threadpool(answer)
 
 
 @router.get("/api/health", tags=["api"], summary="Liveness and versions")
-def api_health() -> dict:
+async def api_health() -> dict:
+    """On the event loop on purpose: no store, no engine, so it answers even when every
+    thread of the pool waits for a solve."""
     return {"status": "ok", "engine_version": engine.__version__,
             "formats": {"design": "shaft-design/1", "result": "shaft-result/1"}}
 

@@ -21,16 +21,16 @@ import json
 import logging
 import os
 import time
-from collections import OrderedDict
 from pathlib import Path
 from typing import Any, Mapping
 
 from fastapi import APIRouter, Request
 from fastapi.responses import FileResponse, HTMLResponse, Response
 from fastapi.templating import Jinja2Templates
+from starlette.concurrency import run_in_threadpool
 
 import engine
-from app import drawing, plots, results_view, units, web
+from app import drawing, plots, results_view, units, web, work
 from engine.bearings.catalogue import BUNDLED_PATH
 from engine.model import Issue
 
@@ -89,22 +89,10 @@ def demo_design() -> dict[str, Any]:
     return json.loads(json.dumps(_FALLBACK_DEMO))
 
 
-_CACHE: "OrderedDict[str, Any]" = OrderedDict()
-_CACHE_SIZE = 64
-
-
 def _solve(design: engine.Design) -> Any:
-    """engine.solve, remembering the last few results (a load-case switch re-solves nothing)."""
-    key = design.model_dump_json()
-    hit = _CACHE.get(key)
-    if hit is not None:
-        _CACHE.move_to_end(key)
-        return hit
-    result = engine.solve(design)
-    _CACHE[key] = result
-    if len(_CACHE) > _CACHE_SIZE:
-        _CACHE.popitem(last=False)
-    return result
+    """The bounded, cached solve (:func:`app.work.solve`: a load-case switch or a page read
+    re-solves nothing; a solve past its time budget stops with a message)."""
+    return work.solve(design)
 
 
 def solve_form(form: Mapping[str, str]) -> dict[str, Any]:
@@ -172,16 +160,23 @@ def editor_page(request: Request, units_: str | None = None) -> HTMLResponse:
 async def editor_solve(request: Request) -> HTMLResponse:
     """One live edit: the whole form in, the out-of-band fragments out (422 when invalid)."""
     form = _form_of(await request.form())
-    ctx = solve_form(form)
-    return templates.TemplateResponse(request, "partials/live.html", ctx,
-                                      status_code=200 if ctx["result"] is not None else 422)
+
+    def answer() -> HTMLResponse:  # solve and render off the event loop
+        ctx = solve_form(form)
+        return templates.TemplateResponse(request, "partials/live.html", ctx,
+                                          status_code=200 if ctx["result"] is not None else 422)
+
+    return await run_in_threadpool(answer)
 
 
 @router.post("/editor/op", response_class=HTMLResponse)
 async def editor_op(request: Request) -> HTMLResponse:
     """A structural edit: the editor form re-rendered, plus the live fragments."""
-    raw = await request.form()
-    form = _form_of(raw)
+    form = _form_of(await request.form())
+    return await run_in_threadpool(_editor_op, request, form)
+
+
+def _editor_op(request: Request, form: dict[str, str]) -> HTMLResponse:
     op = form.pop("op", "")
     if op == "units":
         op = "units:" + form.pop("to_units", "si")

@@ -41,6 +41,10 @@ from engine.model import DesignError, Issue
 from engine.study import (ARRANGEMENTS, CHUNK, StudyResult, apply_values, compare_arrangements,
                           parse_study, run_study)
 
+from app import work
+from app.limits import LimitError, check_counts, parse_json, read_body
+from app.settings import get_settings
+
 __all__ = ["router", "encode_design", "decode_design", "study_plot", "variable_options"]
 
 log = logging.getLogger("shaftwright.studies")
@@ -61,22 +65,20 @@ def decode_design(text: str) -> Any:
         raw = zlib.decompress(base64.urlsafe_b64decode(text + "=" * (-len(text) % 4)), bufsize=1 << 16)
         if len(raw) > 2_000_000:
             raise ValueError("too large")
-        return json.loads(raw.decode("utf-8"))
-    except (ValueError, zlib.error, UnicodeDecodeError):
+        data = json.loads(raw.decode("utf-8"))
+        check_counts(data)  # nesting and counts, as for any design that comes in
+        return data
+    except LimitError:
+        raise
+    except (ValueError, zlib.error, UnicodeDecodeError, RecursionError):
         raise DesignError([Issue(path="d", message="the design in the link is damaged; open the study "
                                                    "from the editor again")]) from None
 
 
-def _errors(exc: DesignError) -> JSONResponse:
-    status = getattr(exc, "status_code", 422)
-    return JSONResponse(status_code=status, content={"errors": [{"path": i.path, "message": i.message}
-                                                               for i in exc.errors]})
-
-
-async def _json_body(request: Request) -> Any:
-    from app.limits import read_json
-
-    return await read_json(request)
+def _bounded(fn, *args) -> Any:
+    """A study's work in a child process, stopped at the study budget (app.work)."""
+    return work.run_bounded(fn, *args, budget_s=get_settings().study_budget_s, what="The study",
+                            kind="study")
 
 
 def _guard(data: Any) -> Any:
@@ -104,18 +106,24 @@ def _clean(v: Any) -> Any:
 
 # --- JSON API ---------------------------------------------------------------------------------
 
-async def _answer(request: Request, work, what: str) -> JSONResponse:
-    """Read the JSON body, run ``work(body)``; bad input is 422 with its paths, an engine fault
-    is logged and answered 500 in words, so the server stays up."""
-    try:
-        res = await work(await _json_body(request))
-    except DesignError as exc:
-        return _errors(exc)
-    except Exception as exc:
-        log.exception("%s failed", what)
-        return JSONResponse(status_code=500, content={"errors": [{"path": "", "message":
-                            f"the engine could not {what} ({type(exc).__name__}: {exc})"}]})
-    return JSONResponse(_clean(res.model_dump(mode="json")))
+async def _answer(request: Request, job) -> JSONResponse:
+    """Read the JSON body, run ``job(body)`` in a thread (bounded by the study budget); errors
+    are answered by the app's one error policy (app/errors.py)."""
+    raw = await read_body(request)
+
+    def run() -> JSONResponse:
+        return JSONResponse(_clean(job(parse_json(raw)).model_dump(mode="json")))
+
+    return await run_in_threadpool(run)
+
+
+def _vary(value: Any) -> list:
+    if isinstance(value, str):
+        value = [value]
+    if not isinstance(value, list) or not all(isinstance(v, (str, dict)) for v in value):
+        raise DesignError([Issue(path="vary", message="'vary' is a list of one or two variables, "
+                                 "e.g. [\"supports.B.x_mm=300:500:21\"]")])
+    return value
 
 
 _STUDY_EXAMPLE = {"design": {"...": "a design document, format shaft-design/1"},
@@ -130,13 +138,13 @@ _STUDY_EXAMPLE = {"design": {"...": "a design document, format shaft-design/1"},
 async def api_study(request: Request) -> JSONResponse:
     """Solve every variant: per variant the bearing lives, the governing shaft safety factor,
     the largest slope at a bearing and the first critical speed."""
-    async def work(body):
+    def job(body):
         if not isinstance(body, dict) or "vary" not in body:
             raise DesignError([Issue(path="vary", message="give 'design' and 'vary' (one or two "
                                                           "variables, e.g. \"supports.B.x_mm=300:500:21\")")])
-        return await run_in_threadpool(run_study, _guard(_design_of(body)), body["vary"])
+        return _bounded(run_study, _guard(_design_of(body)), _vary(body["vary"]))
 
-    return await _answer(request, work, "run this study")
+    return await _answer(request, job)
 
 
 @router.post("/api/arrangements", tags=["api"], summary="Compare bearing arrangements",
@@ -145,10 +153,10 @@ async def api_study(request: Request) -> JSONResponse:
 async def api_arrangements(request: Request) -> JSONResponse:
     """Every sensible bearing-type and axial-arrangement combination of the outermost
     supports, each with its best candidates, lives, static safety, slopes and space, ranked."""
-    async def work(body):
-        return await run_in_threadpool(compare_arrangements, _guard(_design_of(body)))
+    def job(body):
+        return _bounded(compare_arrangements, _guard(_design_of(body)))
 
-    return await _answer(request, work, "compare arrangements")
+    return await _answer(request, job)
 
 
 # --- page -------------------------------------------------------------------------------------
@@ -234,17 +242,13 @@ async def study_open(request: Request) -> Response:
     from app import web
 
     form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
-    _, data, _ = web.read_form(form)
+    _, data, _ = await run_in_threadpool(web.read_form, form)
     url = "/study?d=" + encode_design(data)
     return Response(status_code=200, headers={"HX-Redirect": url})
 
 
 def _form_design(form: dict[str, str]) -> Any:
-    try:
-        data = json.loads(form.get("design", "") or "null")
-    except json.JSONDecodeError as exc:
-        raise DesignError([Issue(path="design", message=f"the design on this page is not valid JSON ({exc})")]) from None
-    return _guard(data)
+    return _guard(parse_json(form.get("design", "") or "null"))  # size, depth, counts (413/422)
 
 
 def _vary_of(form: dict[str, str]) -> list[str]:
@@ -260,8 +264,9 @@ def _fragment(request: Request, name: str, ctx: dict, status_code: int = 200) ->
     return _templates().TemplateResponse(request, name, ctx, status_code=status_code)
 
 
-def _result_fragment(request: Request, res: StudyResult) -> HTMLResponse:
-    ctx = {"res": res, "plot_json": json.dumps(_clean(study_plot(res))), "table": _table(res)}
+def _result_fragment(request: Request, res: StudyResult, *, over_budget: bool = False) -> HTMLResponse:
+    ctx = {"res": res, "plot_json": json.dumps(_clean(study_plot(res))), "table": _table(res),
+           "budget_s": get_settings().study_budget_s if over_budget else None}
     return _fragment(request, "partials/study_result.html", ctx)
 
 
@@ -279,6 +284,7 @@ class _Job:
         self.result: StudyResult | None = None
         self.error: Exception | None = None
         self.finished = threading.Event()
+        self.over_budget = False
         self.started = self.touched = time.monotonic()
 
 
@@ -306,8 +312,11 @@ def _start_job(data: Any, study) -> str | None:
 
     def run() -> None:
         try:
-            job.result = run_study(data, study, stop=job.stop.is_set,
-                                   progress=lambda done, total: setattr(job, "done", done))
+            budget_s = get_settings().study_budget_s
+            job.result = run_study(  # stops between chunks: on request, or at the study budget
+                data, study, progress=lambda done, total: setattr(job, "done", done),
+                stop=lambda: job.stop.is_set() or time.monotonic() - job.started > budget_s)
+            job.over_budget = not job.stop.is_set() and job.result.stopped
         except Exception as exc:  # reported on the page by the next poll
             if not isinstance(exc, DesignError):
                 log.exception("study failed")
@@ -331,23 +340,24 @@ async def study_run(request: Request) -> HTMLResponse:
     """Run the study of the page's form: the plots and the table (422: the messages). A study
     of more than one chunk runs as a job: the answer is its progress fragment."""
     form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
-    try:
-        data = _form_design(form)
-        study = await run_in_threadpool(parse_study, data, _vary_of(form))
-        if study.n_variants <= CHUNK:
-            res = await run_in_threadpool(run_study, data, study)
-            return _result_fragment(request, res)
-    except DesignError as exc:
-        return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
-    except Exception as exc:  # never lose the page to an engine fault
-        log.exception("study failed")
-        return _fault_fragment(request, exc)
-    key = _start_job(data, study)
-    if key is None:
-        return _fragment(request, "partials/study_errors.html", {"issues": [Issue(
-            path="", message=f"{_MAX_JOBS} studies are running on this server; wait for one to finish "
-                             "and run this one again")]}, 503)
-    return _progress_fragment(request, key, _JOBS[key])
+    def answer() -> HTMLResponse:  # off the event loop
+        try:
+            data = _form_design(form)
+            vary = _vary_of(form)
+            study = parse_study(data, vary)
+            if study.n_variants <= CHUNK:  # one chunk: in a child process, stopped at the budget
+                return _result_fragment(request, _bounded(run_study, data, vary))
+        except DesignError as exc:
+            return _fragment(request, "partials/study_errors.html", {"issues": exc.errors},
+                             getattr(exc, "status_code", 422))
+        key = _start_job(data, study)
+        if key is None:
+            return _fragment(request, "partials/study_errors.html", {"issues": [Issue(
+                path="", message=f"{_MAX_JOBS} studies are running on this server; wait for one to finish "
+                                 "and run this one again")]}, 503)
+        return _progress_fragment(request, key, _JOBS[key])
+
+    return await run_in_threadpool(answer)
 
 
 def _job(key: str) -> _Job | None:
@@ -372,7 +382,7 @@ def study_job(request: Request, key: str) -> HTMLResponse:
         return _fragment(request, "partials/study_errors.html", {"issues": job.error.errors}, 422)
     if job.error is not None:
         return _fault_fragment(request, job.error)
-    return _result_fragment(request, job.result)
+    return _result_fragment(request, job.result, over_budget=job.over_budget)
 
 
 @router.post("/study/job/{key}/stop", response_class=HTMLResponse)
@@ -390,21 +400,30 @@ def study_job_stop(request: Request, key: str) -> HTMLResponse:
 async def study_arrangements(request: Request) -> HTMLResponse:
     """The arrangement comparison of the page's design (fragment)."""
     form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
-    try:
-        cmp = await run_in_threadpool(compare_arrangements, _form_design(form))
-    except DesignError as exc:
-        return _fragment(request, "partials/study_errors.html", {"issues": exc.errors}, 422)
-    return _fragment(request, "partials/study_arrangements.html", {"cmp": cmp})
+
+    def answer() -> HTMLResponse:
+        try:
+            cmp = _bounded(compare_arrangements, _form_design(form))
+        except DesignError as exc:
+            return _fragment(request, "partials/study_errors.html", {"issues": exc.errors},
+                             getattr(exc, "status_code", 422))
+        return _fragment(request, "partials/study_arrangements.html", {"cmp": cmp})
+
+    return await run_in_threadpool(answer)
 
 
 @router.post("/study/apply", response_class=HTMLResponse)
 async def study_apply(request: Request) -> HTMLResponse:
     """Take a variant into the design: the editor opened on the design with the values set
     (``arrangement`` as a variable, or ``take_arrangement`` from the comparison)."""
+    form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
+    return await run_in_threadpool(_apply, request, form)
+
+
+def _apply(request: Request, form: dict[str, str]) -> HTMLResponse:
     from app.routers.pages import render_editor
     from engine.study import arrangement_design
 
-    form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
     try:
         data = _form_design(form)
         design = engine.parse_design(data)

@@ -18,6 +18,7 @@ bundled_catalogue the bundled table, loaded once and cached
 from __future__ import annotations
 
 import csv
+from collections import Counter
 import functools
 import math
 from dataclasses import dataclass, field
@@ -32,6 +33,7 @@ __all__ = ["COLUMNS", "REQUIRED", "BUNDLED_PATH", "Catalogue", "parse_catalogue"
 
 COLUMNS = ("designation", "bearing_type", "series", "d_mm", "D_mm", "B_mm", "contact_angle_deg",
            "C_N", "C0_N", "Cu_N", "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0")
+MAX_COLUMNS = 100  # the columns above and room for a supplier's own extras
 REQUIRED = ("designation", "bearing_type", "series", "d_mm", "D_mm", "B_mm", "C_N", "C0_N")
 _NUMERIC = ("d_mm", "D_mm", "B_mm", "contact_angle_deg", "C_N", "C0_N", "Cu_N",
             "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0")
@@ -126,11 +128,15 @@ def parse_catalogue(text: str, *, name: str = "bearing table") -> Catalogue:
     if start is None:
         raise DesignError([Issue(path="header", message=f"{name} has no header line and no rows")])
     header = [h.strip() for h in next(csv.reader([lines[start]]))]
+    if len(header) > MAX_COLUMNS:  # refused before any check that grows with the columns
+        raise DesignError([Issue(path="header", message=(
+            f"{name} has {len(header):,} columns; a bearing table has at most {MAX_COLUMNS} "
+            f"(the columns are {', '.join(COLUMNS)})"))])
     missing = [c for c in REQUIRED if c not in header]
     if missing:
         raise DesignError([Issue(path="header", message=(
             f"{name} lacks the column(s) {', '.join(missing)}; the columns are {', '.join(COLUMNS)}"))])
-    dup = sorted({h for h in header if header.count(h) > 1})
+    dup = sorted(h for h, k in Counter(header).items() if k > 1)  # linear in the columns
     if dup:
         raise DesignError([Issue(path="header", message=f"column(s) {', '.join(dup)} appear twice")])
     extra = [h for h in header if h not in COLUMNS]

@@ -42,15 +42,23 @@ def test_save_then_open_the_share_link_elsewhere(browser, page, live_server):
     finally:
         ctx2.close()
 
-    # ... so the first person's next save, still on revision 1, is a conflict that keeps both
+    # ... so the first person's next save, still on revision 1 and renaming too, clashes on
+    # the name: both values side by side, a choice per key, nothing overwritten
+    page.fill("#f-name", NAME + " (A)")
     page.fill("input[name=share_comment]", "my second save")
     page.click("#share-save")
-    conflict = page.locator(".share-conflict")
+    conflict = page.locator(".share-clash")
     expect(conflict).to_be_visible()
     expect(conflict).to_contain_text("Nothing was overwritten")
     expect(conflict).to_contain_text(NAME + " (B)")
-    page.click("#share-save")  # having seen the changes, save on top of revision 2
-    expect(page.locator(".share-ok")).to_contain_text("Saved as revision 3")
+    expect(conflict).to_contain_text(NAME + " (A)")
+    expect(conflict.locator("tr[data-key=name]")).to_contain_text("keep mine")
+    page.click("#share-save")  # no choice made: still not saved (this try is kept too)
+    expect(page.locator(".share-clash")).to_contain_text("conflict record 2")
+    page.check("input[name='share_resolve:name'][value=theirs]")
+    page.click("#share-save")  # the merge with the choice becomes revision 3; the page shows it
+    expect(page.locator(".share-merged")).to_contain_text("Saved as revision 3")
+    expect(page.locator("#f-name")).to_have_value(NAME + " (B)")
     page.goto(live_server + href + "/revisions")
     expect(page.locator(".revision-list tbody tr")).to_have_count(3)
     expect(page.locator("body")).to_contain_text("Saves kept after a conflict")

@@ -159,8 +159,14 @@ def test_api_solve_answers_an_engine_fault_with_an_errors_list(client, monkeypat
     """Was a bare 500 for any exception but DesignError; now 422 with the fault in words."""
     import sys
 
+    from app import work
+
     monkeypatch.setattr(sys.modules["engine.solve"], "shaft_checks",
                         lambda a: (_ for _ in ()).throw(ZeroDivisionError("boom")))
+    # the patch lives in this process: run the bounded solve here rather than in a child
+    # (the child's fault reaches the API the same way: tests/server/test_stalls.py)
+    monkeypatch.setattr(work, "run_bounded", lambda fn, *a, budget_s, what, kind="solve", **k: fn(*a, **k))
+    work.clear_cache()
     r = client.post("/api/solve", json=load_sample("countershaft.json"))
     assert r.status_code == 422
     assert "ZeroDivisionError" in r.json()["errors"][0]["message"]

@@ -39,18 +39,35 @@ def test_revisions_list_fetch_and_stale_base(client, design):
     assert listing["revisions"][1]["comment"] == "renamed" and listing["latest_revision"] == 2
     assert client.get(f"/api/designs/{did}/revisions/1").json()["design"] == design
 
+    # a stale base merges three ways (issue 16): their rename and my notes both survive
     mine = {**design, "notes": "edited on top of 1"}
-    stale = client.post(f"/api/designs/{did}/revisions", json={"design": mine, "base_revision": 1})
+    merged = client.post(f"/api/designs/{did}/revisions", json={"design": mine, "base_revision": 1})
+    assert merged.status_code == 201 and merged.json()["revision"] == 3
+    assert merged.json()["merged_from"] | {"conflict_id": 0} == {
+        "base_revision": 1, "latest_revision": 2, "yours": ["notes"], "theirs": ["name"],
+        "conflict_id": 0}
+    assert merged.json()["design"] == {**design, "name": "second", "notes": "edited on top of 1"}
+    assert client.get(merged.json()["api_url"]).json()["revision"] == 3
+
+    # the same key changed on both sides: 409 with the clashing key, nothing overwritten
+    clash = {**design, "name": "third"}
+    stale = client.post(f"/api/designs/{did}/revisions", json={"design": clash, "base_revision": 1})
     assert stale.status_code == 409
     body = stale.json()
-    assert body["latest_revision"] == 2 and body["base_revision"] == 1
-    assert {(c["path"], c["before"], c["after"]) for c in body["changes"]} == {
-        ("name", "second", design["name"]), ("notes", design["notes"], "edited on top of 1")}
+    assert body["latest_revision"] == 3 and body["base_revision"] == 1
+    assert body["clashes"] == [{"path": "name", "base": design["name"], "theirs": "second",
+                                "mine": "third", "removed_in_theirs": False, "removed_in_mine": False}]
+    assert "name" in body["detail"] and "resolutions" in body["detail"]
     kept = client.get(body["conflict_url"]).json()
-    assert kept["document"] == mine
-    # nothing was overwritten
-    assert client.get(f"/api/designs/{did}").json()["design"] == v2
-    assert [x["revision"] for x in client.get(f"/api/designs/{did}/revisions").json()["revisions"]] == [1, 2]
+    assert kept["document"] == clash
+    latest = client.get(f"/api/designs/{did}").json()
+    assert latest["revision"] == 3 and latest["design"]["name"] == "second"
+    # the choice made: mine for the clashing key, their other changes kept
+    chosen = client.post(f"/api/designs/{did}/revisions", json={
+        "design": clash, "base_revision": 1, "resolutions": {"name": "mine"}})
+    assert chosen.status_code == 201, chosen.text
+    assert chosen.json()["design"]["name"] == "third"
+    assert chosen.json()["design"]["notes"] == "edited on top of 1"
 
 
 def test_unknown_and_malformed_ids_are_404(client, design):

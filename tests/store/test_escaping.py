@@ -45,8 +45,9 @@ def test_every_page_escapes_every_field(client, design):
                      json={"design": {**design, "name": PAYLOAD.format("name2")}, "base_revision": 1,
                            "author": PAYLOAD.format("author2"), "comment": PAYLOAD.format("comment2")})
     assert r2.status_code == 201
-    stale = client.post(f"/api/designs/{did}/revisions",
-                        json={"design": design, "base_revision": 1, "author": PAYLOAD.format("a3")})
+    stale = client.post(f"/api/designs/{did}/revisions",  # the same key as r2: a clash, kept
+                        json={"design": {**design, "name": PAYLOAD.format("name3")},
+                              "base_revision": 1, "author": PAYLOAD.format("a3")})
     assert stale.status_code == 409
     pages = [f"/d/{did}", f"/d/{did}?from=1", f"/d/{did}/r/1", f"/d/{did}/r/2", f"/d/{did}/revisions",
              f"/d/{did}/compare?a=1&b=2", f"/d/{did}/r/1/note", f"/d/{did}/r/2/note"]

@@ -33,11 +33,24 @@ def test_stale_save_shows_the_changes_and_keeps_both(client, design):
     r = client.post("/d/save", data=_form({**design, "name": PAYLOAD.format("mine")},
                                           design_id=did, base_revision=1))
     assert r.status_code == 409
-    assert "Not saved on top" in r.text and "conflict record 1" in r.text and "by Ben" in r.text
+    assert "Not saved yet" in r.text and "conflict record 1" in r.text and "by Ben" in r.text
     assert "theirs" in r.text and "swmine" in r.text and not MARK.search(r.text)
-    assert 'name="share_base_revision" value="2"' in r.text  # a second Save goes on top of 2
+    # the base stays revision 1 (a second Save merges again; it never goes blindly on top of 2)
+    assert 'name="share_base_revision" value="1"' in r.text
+    assert 'name="share_resolve:name" value="mine"' in r.text and "keep mine" in r.text
+    assert 'name="share_resolve:name" value="theirs"' in r.text and "take theirs" in r.text
     assert client.get(f"/api/designs/{did}").json()["design"]["name"] == "theirs"
     assert client.get(f"/api/designs/{did}/conflicts/1").json()["document"]["name"].endswith("</script>")
+    # saving again without a choice changes nothing; with "take theirs" the merge is saved
+    again = client.post("/d/save", data=_form({**design, "name": PAYLOAD.format("mine")},
+                                              design_id=did, base_revision=1))
+    assert again.status_code == 409 and client.get(f"/api/designs/{did}").json()["revision"] == 2
+    form = _form({**design, "name": PAYLOAD.format("mine")}, design_id=did, base_revision=1)
+    form["share_resolve:name"] = "theirs"
+    done = client.post("/d/save", data=form, follow_redirects=False)
+    assert done.status_code == 303
+    latest = client.get(f"/api/designs/{did}").json()
+    assert latest["revision"] == 3 and latest["design"]["name"] == "theirs"
 
 
 def test_invalid_form_is_not_saved_and_says_where(client, design):
