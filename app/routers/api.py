@@ -48,6 +48,8 @@ def solve_document(data: Any) -> tuple[int, dict]:
     except engine.DesignError as exc:
         return (getattr(exc, "status_code", 422),  # 413: too large or too much work
                 {"errors": [{"path": i.path, "message": i.message} for i in exc.errors]})
+    except work.ServerBusy:  # 503 with Retry-After (app/errors.py), not a fault of the design
+        raise
     except Exception as exc:  # noqa: BLE001 - never a bare 500 for a design
         log.exception("engine failed")
         return 422, {"errors": [{"path": "", "message": "the engine could not solve this design "
