@@ -37,7 +37,7 @@ def cmd_solve(args: argparse.Namespace) -> int:
 def cmd_serve(args: argparse.Namespace) -> int:
     from app.server import run
 
-    run(host=args.host, port=args.port)
+    run(host=args.host, port=args.port, open_=args.open)
     return 0
 
 
@@ -62,6 +62,8 @@ def main(argv: list[str] | None = None) -> int:
     p = sub.add_parser("serve", help="run the web app (opens on the demo design)")
     p.add_argument("--host", default="127.0.0.1")
     p.add_argument("--port", type=int, default=8000)
+    p.add_argument("--open", action="store_true", help="listen on a non-loopback --host even "
+                   "though the store has no accounts (everyone who reaches it may do everything)")
     p.set_defaults(func=cmd_serve)
     p = sub.add_parser("note", help="print a design's note to PDF through headless Chromium")
     p.add_argument("design")
@@ -72,6 +74,9 @@ def main(argv: list[str] | None = None) -> int:
 
     _study_args(p)
     p.set_defaults(func=cmd_study)
+    from app.users_cli import add_parser as _users
+
+    _users(sub)  # shaftwright users …: the team's accounts and API tokens
     args = parser.parse_args(argv)
     return args.func(args)
 

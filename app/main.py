@@ -7,7 +7,8 @@ from fastapi import FastAPI
 from fastapi.staticfiles import StaticFiles
 
 import engine
-from app.routers import api, designs, pages, studies
+from app import security
+from app.routers import access, api, designs, pages, studies
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -18,6 +19,7 @@ def create_app() -> FastAPI:
                   description="Shaft-and-bearing arrangement designer. Results inform preliminary "
                               "design only; verify with supplier data and a qualified engineer.")
     app.mount("/static", StaticFiles(directory=ROOT / "static"), name="static")
-    for module in (pages, api, designs, studies):
-        app.include_router(module.router)
+    security.install(app)  # headers on every response; refusals answered in words
+    for module in (pages, api, designs, studies, access):
+        app.include_router(module.router, dependencies=[security.GUARD])  # who asks, may they
     return app

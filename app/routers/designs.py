@@ -37,10 +37,12 @@ from fastapi import APIRouter, Request, UploadFile
 from fastapi.responses import HTMLResponse, JSONResponse, RedirectResponse, Response
 
 import engine
+from app.auth import author_for, may_write, principal_of
 from app.limits import LimitError, check_counts, parse_json, read_json
 from app.note import (TEMPLATES, NoteMeta, compare_results, diff_documents, drawing_svg,
                       note_context, solve_or_errors)
 from app.settings import get_settings
+from app.routers.access import links_for_page
 from app.store import NotFound, Revision, StaleBase, Store, StoreDep, is_design_id
 from engine.model import DesignError, Issue, parse_design
 
@@ -165,19 +167,19 @@ async def create_design(request: Request, store: StoreDep) -> JSONResponse:
         document, author, comment, _ = _split_body(await read_json(request), wrapped=False)
     except DesignError as exc:
         return _error_response(exc)
-    rev = _save(store, None, document, author=author, comment=comment, base=None)
+    rev = _save(store, None, document, author=author_for(request, author), comment=comment, base=None)
     return JSONResponse(_revision_json(rev), status_code=201)
 
 
 @router.post("/api/designs/import", status_code=201)
-async def import_design(file: UploadFile, store: StoreDep) -> JSONResponse:
+async def import_design(request: Request, file: UploadFile, store: StoreDep) -> JSONResponse:
     """Import a design file (multipart field ``file``); a bad file stores nothing."""
     try:
         document = await _read_upload(file)
     except DesignError as exc:
         return _error_response(exc)
-    rev = _save(store, None, document, author="", comment=f"imported from {file.filename or 'a file'}"[:MAX_COMMENT],
-                base=None)
+    rev = _save(store, None, document, author=author_for(request, ""),
+                comment=f"imported from {file.filename or 'a file'}"[:MAX_COMMENT], base=None)
     return JSONResponse(_revision_json(rev), status_code=201)
 
 
@@ -236,8 +238,12 @@ async def add_revision(design_id: str, request: Request, store: StoreDep) -> JSO
         document, author, comment, base = _split_body(await read_json(request), wrapped=True)
     except DesignError as exc:
         return _error_response(exc)
+    refused = may_write(request, design_id)
+    if refused:
+        return JSONResponse({"detail": refused}, status_code=403)
     try:
-        rev = _save(store, design_id, document, author=author, comment=comment, base=base)
+        rev = _save(store, design_id, document, author=author_for(request, author), comment=comment,
+                    base=base)
     except StaleBase as exc:
         return JSONResponse(_conflict_json(exc, document), status_code=409)
     return JSONResponse(_revision_json(rev), status_code=201)
@@ -306,12 +312,20 @@ def open_latest(request: Request, design_id: str, store: StoreDep) -> HTMLRespon
         shown = store.revision(design_id, from_) if from_ else latest
     except NotFound as exc:
         return _page_404(request, exc)
-    share = _share_context(latest, base=latest.n, editing_from=shown.n)
+    if principal_of(request).role == "view":  # a read-only link: the read-only page
+        return _revision_page(request, shown, store)
+    share = _share_context(latest, base=latest.n, editing_from=shown.n,
+                           links=links_for_page(request, store, design_id))
     return _editor_or_view(request, shown.document, share, shown, store)
 
 
 def _int(text: str | None) -> int | None:
     return int(text) if text and text.isdigit() else None
+
+
+def _conflicts_for(request: Request, store: Store, design_id: str) -> list:
+    """Refused saves hold others' unsaved work: not shown to a read-only link."""
+    return [] if principal_of(request).role == "view" else store.conflicts(design_id)
 
 
 def _revision_page(request: Request, rev: Revision, store: Store) -> HTMLResponse:
@@ -321,7 +335,8 @@ def _revision_page(request: Request, rev: Revision, store: Store) -> HTMLRespons
     return TEMPLATES.TemplateResponse(request, "revisions.html", {
         "design_id": rev.design_id, "revisions": revs, "selected": rev, "latest_n": revs[-1].n,
         "result": result, "errors": errors, "drawing": drawing,
-        "conflicts": store.conflicts(rev.design_id)})
+        "conflicts": _conflicts_for(request, store, rev.design_id),
+        "links": links_for_page(request, store, rev.design_id)})
 
 
 @router.get("/d/{design_id}/r/{n}", response_class=HTMLResponse)
@@ -344,7 +359,8 @@ def history(request: Request, design_id: str, store: StoreDep) -> HTMLResponse:
         return _page_404(request, exc)
     return TEMPLATES.TemplateResponse(request, "revisions.html", {
         "design_id": design_id, "revisions": revs, "selected": None, "latest_n": revs[-1].n,
-        "conflicts": store.conflicts(design_id)})
+        "conflicts": _conflicts_for(request, store, design_id),
+        "links": links_for_page(request, store, design_id)})
 
 
 @router.get("/d/{design_id}/compare", response_class=HTMLResponse)
@@ -400,8 +416,12 @@ async def save_from_editor(request: Request, store: StoreDep) -> HTMLResponse:
         if issues:
             raise DesignError(issues)
         _validated(document)
-        author = _text(share_in["author"], "author", MAX_AUTHOR)
+        author = author_for(request, _text(share_in["author"], "author", MAX_AUTHOR))
         comment = _text(share_in["comment"], "comment", MAX_COMMENT)
+        refused = may_write(request, design_id)
+        if refused:
+            return _panel(request, _share_context(None, errors=[Issue(path="", message=refused)],
+                                                  design_id=design_id or "", **share_in), 403)
         if design_id is not None:
             _check_id(design_id)
             store.latest(design_id)
@@ -418,7 +438,8 @@ async def save_from_editor(request: Request, store: StoreDep) -> HTMLResponse:
                                conflict=exc, changes=diff_documents(exc.latest.document, document),
                                latest_n=exc.latest.n, **share_in)
         return _panel(request, share, 409)
-    share = _share_context(rev, status="saved", comment="")
+    share = _share_context(rev, status="saved", comment="",
+                           links=links_for_page(request, store, rev.design_id))
     response = _panel(request, share, 200)
     if request.headers.get("hx-request"):
         response.headers["HX-Push-Url"] = f"/d/{rev.design_id}"
@@ -444,7 +465,7 @@ async def import_page(request: Request, file: UploadFile, store: StoreDep) -> Re
         share = _share_context(None, import_errors=list(exc.errors),
                                import_name=file.filename or "")
         return _panel(request, share, getattr(exc, "status_code", 422))
-    rev = _save(store, None, document, author="",
+    rev = _save(store, None, document, author=author_for(request, ""),
                 comment=f"imported from {file.filename or 'a file'}"[:MAX_COMMENT], base=None)
     url = f"/d/{rev.design_id}"
     if request.headers.get("hx-request"):
