@@ -76,7 +76,8 @@ def test_hostile_ids_run_no_script_on_any_page(page, live_server):
     _post_json(live_server + f"/api/designs/{did}/revisions",
                {"design": {**d, "name": P_ATTR}, "base_revision": 1, "author": P_SCRIPT})
     pages = [f"/d/{did}", f"/d/{did}/r/1", f"/d/{did}/r/2", f"/d/{did}/revisions",
-             f"/d/{did}/compare?a=1&b=2", f"/d/{did}/r/1/note", "/study?d=" + encode_design(d)]
+             f"/d/{did}/compare?a=1&b=2", f"/d/{did}/r/1/note", "/study?d=" + encode_design(d),
+             "/docs", "/login"]
     for path in pages:
         page.goto(live_server + path)
         page.wait_for_load_state("networkidle")
@@ -141,6 +142,16 @@ def test_team_server_sign_in_save_and_a_read_only_link(browser, page, team_serve
     expect(link).to_be_visible()
     url = link.get_attribute("href")
     _clean(page, "signed-in editor")
+    # a plain form (the study's "take this variant") carries the form token too
+    page.click("#open-study")
+    page.wait_for_url("**/study?d=*")
+    page.wait_for_selector("html[data-ready='1']")
+    page.click("#run-study")
+    page.wait_for_selector("html[data-study-drawn='1']")
+    page.locator("button.take-row").first.click()
+    page.wait_for_url("**/study/apply")
+    page.wait_for_selector("#design-form")
+    _clean(page, "a variant taken into the design")
 
     ctx = browser.new_context(viewport={"width": 1440, "height": 1000})
     other = ctx.new_page()
