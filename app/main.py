@@ -16,6 +16,7 @@ ROOT = Path(__file__).resolve().parents[1]
 def create_app() -> FastAPI:
     app = FastAPI(title="Shaftwright", version=engine.__version__,
                   docs_url=None, redoc_url=None,  # /docs is served offline by app.routers.api
+                  openapi_url=None,  # /openapi.json is app.routers.access's, behind the sign-in
                   description="Shaft-and-bearing arrangement designer. Results inform preliminary "
                               "design only; verify with supplier data and a qualified engineer.")
     app.mount("/static", StaticFiles(directory=ROOT / "static"), name="static")

@@ -11,6 +11,7 @@ Pages and forms
   once (only its hash is kept).
 
 JSON API
+- ``GET /openapi.json``: the app's OpenAPI document.
 - ``GET /api/designs/{id}/links``: the design's links (no secrets).
 - ``POST /api/designs/{id}/links`` ``{"role": "view" | "edit", "label": ""}`` → 201 with
   ``url`` (shown once).
@@ -70,12 +71,12 @@ def _login_page(request: Request, store, *, next_: str, name: str = "", error: s
         "has_accounts": auth.accounts_exist(store)}, status_code=status_code)
 
 
-@router.get("/login", response_class=HTMLResponse)
+@router.get("/login", response_class=HTMLResponse, include_in_schema=False)
 def login_page(request: Request, store: StoreDep, next: str = "/") -> HTMLResponse:  # noqa: A002
     return _login_page(request, store, next_=next)
 
 
-@router.post("/login", response_class=HTMLResponse)
+@router.post("/login", response_class=HTMLResponse, include_in_schema=False)
 def login(request: Request, store: StoreDep, name: str = Form(""), password: str = Form(""),
           next: str = Form("/")) -> Response:  # noqa: A002
     """Check the name and password (Argon2, in the thread pool); a session on success."""
@@ -90,7 +91,7 @@ def login(request: Request, store: StoreDep, name: str = Form(""), password: str
     return response
 
 
-@router.post("/logout")
+@router.post("/logout", include_in_schema=False)
 def logout(request: Request, store: StoreDep) -> Response:
     old = request.cookies.get(auth.SESSION_COOKIE)
     if old:
@@ -100,7 +101,7 @@ def logout(request: Request, store: StoreDep) -> Response:
     return response
 
 
-@router.get("/s/{secret}")
+@router.get("/s/{secret}", include_in_schema=False)
 def open_link(request: Request, secret: str, store: StoreDep) -> Response:
     """A share link: a session for its design and role, then the design."""
     link = store.link_by_token_hash(auth.sha256(secret)) if 20 <= len(secret) <= 100 else None
@@ -154,7 +155,7 @@ def _not_found(exc: NotFound) -> JSONResponse:
     return JSONResponse({"detail": str(exc)}, status_code=404)
 
 
-@router.post("/d/{design_id}/links", response_class=HTMLResponse)
+@router.post("/d/{design_id}/links", response_class=HTMLResponse, include_in_schema=False)
 def make_link_form(request: Request, design_id: str, store: StoreDep, role: str = Form("view"),
                    link_label: str = Form("")) -> Response:
     try:
@@ -165,7 +166,8 @@ def make_link_form(request: Request, design_id: str, store: StoreDep, role: str 
                            new_link={"url": url, "role": link.role, "id": link.id})
 
 
-@router.post("/d/{design_id}/links/{link_id}/revoke", response_class=HTMLResponse)
+@router.post("/d/{design_id}/links/{link_id}/revoke", response_class=HTMLResponse,
+             include_in_schema=False)
 def revoke_link_form(request: Request, design_id: str, link_id: str, store: StoreDep) -> Response:
     try:
         store.revoke_link(design_id, link_id)
@@ -174,18 +176,26 @@ def revoke_link_form(request: Request, design_id: str, link_id: str, store: Stor
     return _links_fragment(request, store, design_id)
 
 
+@router.get("/openapi.json", include_in_schema=False)
+def openapi_document(request: Request) -> JSONResponse:
+    """The app's OpenAPI document (here, not FastAPI's own route, so that it needs a sign-in
+    once accounts exist, like every other route)."""
+    return JSONResponse(request.app.openapi())
+
+
 def _link_json(link: ShareLink) -> dict[str, Any]:
     return link.model_dump()
 
 
-@router.get("/api/designs/{design_id}/links")
+@router.get("/api/designs/{design_id}/links", tags=["api"], summary="A design's share links")
 def list_links(design_id: str, store: StoreDep) -> JSONResponse:
     if not is_design_id(design_id):
         return _not_found(NotFound(f"no design {design_id!r}"))
     return JSONResponse({"id": design_id, "links": [_link_json(k) for k in store.links(design_id)]})
 
 
-@router.post("/api/designs/{design_id}/links", status_code=201)
+@router.post("/api/designs/{design_id}/links", status_code=201, tags=["api"],
+             summary="Make a share link (role view or edit); its address is answered once")
 async def make_link(request: Request, design_id: str, store: StoreDep) -> JSONResponse:
     from starlette.concurrency import run_in_threadpool
 
@@ -207,7 +217,7 @@ async def make_link(request: Request, design_id: str, store: StoreDep) -> JSONRe
     return JSONResponse({**_link_json(link), "url": url}, status_code=201)
 
 
-@router.delete("/api/designs/{design_id}/links/{link_id}")
+@router.delete("/api/designs/{design_id}/links/{link_id}", tags=["api"], summary="Revoke a share link")
 def revoke_link(design_id: str, link_id: str, store: StoreDep) -> JSONResponse:
     try:
         store.revoke_link(design_id, link_id)

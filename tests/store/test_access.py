@@ -95,7 +95,7 @@ def test_store_keeps_accounts_tokens_links_and_sessions(store, design):
 def test_once_an_account_exists_every_route_needs_a_session_or_a_token(client, store, design):
     did = client.post("/api/designs", json=design).json()["id"]  # open server: works
     _add_account(store)
-    for path in (f"/api/designs/{did}", f"/api/designs/{did}/revisions", "/docs"):
+    for path in (f"/api/designs/{did}", f"/api/designs/{did}/revisions", "/docs", "/openapi.json"):
         r = client.get(path, follow_redirects=False)
         assert r.status_code in (401, 303), path
     r = client.get(f"/api/designs/{did}")

@@ -131,3 +131,25 @@ def test_without_accounts_the_server_listens_on_loopback_only(tmp_path, monkeypa
     assert bind_refusal("192.168.1.20", open_=True) is None
     open_store(str(db)).add_account("ann", auth.hash_password("long enough"))
     assert bind_refusal("0.0.0.0") is None
+
+
+def test_plotly_needs_no_inline_style_with_the_files_the_pages_link():
+    """static/vendor/plotly-styles.css holds every rule plotly.js would inject (its rule map,
+    read from the installed bundle), and the map library's placeholder id in
+    partials/plotly_head.html is the one the bundle checks; a plotly.js upgrade that changes
+    either fails here (and, in Chromium, in tests/browser/test_security.py)."""
+    from app.routers.pages import PLOTLY_JS
+
+    bundle = PLOTLY_JS.read_text(encoding="utf-8")
+    m = re.search(r"(\w+)=\{(\"X,X div\":.*?)\};for\(\w+ in \1\)", bundle, re.S)
+    assert m, "plotly.js no longer has its rule map where expected"
+    pairs = re.findall(r"(?:\"([^\"]*)\"|(\w+)):(?:\"([^\"]*)\"|'([^']*)')", m.group(2))
+    css = (ROOT / "static" / "vendor" / "plotly-styles.css").read_text(encoding="utf-8")
+    assert len(pairs) > 50
+    for k1, k2, v1, v2 in pairs:
+        sel = re.sub(r"^,", " ,", k1 or k2).replace("X", ".js-plotly-plot .plotly").replace("Y", ".plotly-notifier")
+        assert f"{sel}{{{v1 or v2}}}" in css, sel
+    head = (ROOT / "templates" / "partials" / "plotly_head.html").read_text(encoding="utf-8")
+    guard = re.search(r'<meta id="([0-9a-f]{64})"', head).group(1)
+    assert f'document.getElementById("{guard}")' in bundle
+    assert len(re.findall(r'createElement\("style"\)', bundle)) == 2  # the two handled above
