@@ -121,7 +121,7 @@ ANONYMOUS = Principal("anonymous")
 # --- identifying a request ---------------------------------------------------------------------
 
 _ACCOUNTS_TTL_S = 2.0  # how long "are there accounts?" is remembered (another process may add one)
-_accounts_cache: dict[int, tuple[float, bool]] = {}
+_accounts_cache: dict[object, tuple[float, bool]] = {}
 _TOKENS: "OrderedDict[str, tuple[str, str]]" = OrderedDict()  # sha256(token) -> (token id, account)
 _TOKENS_MAX = 512
 
@@ -130,17 +130,19 @@ def forget_accounts_cache() -> None:
     _accounts_cache.clear()
 
 
-def accounts_exist(store, *, cached_only: bool = False) -> bool | None:
-    """Whether the store holds an account (remembered for two seconds per store).
+def accounts_exist(store, *, key: object = None, cached_only: bool = False) -> bool | None:
+    """Whether the store holds an account (remembered for two seconds per store, or per
+    ``key``, e.g. the store's location).
 
     With ``cached_only`` answer None instead of reading the store (for the event loop)."""
-    hit = _accounts_cache.get(id(store))
+    key = id(store) if key is None else key
+    hit = _accounts_cache.get(key)
     if hit is not None and time.monotonic() - hit[0] < _ACCOUNTS_TTL_S:
         return hit[1]
     if cached_only:
         return None
     value = store.has_accounts()
-    _accounts_cache[id(store)] = (time.monotonic(), value)
+    _accounts_cache[key] = (time.monotonic(), value)
     return value
 
 
@@ -171,10 +173,12 @@ def _token_account(store, token: str) -> str | None:
     return account
 
 
-def identify(store, *, authorization: str = "", session_cookie: str = "") -> Principal:
+def identify(store, *, authorization: str = "", session_cookie: str = "",
+             cache_key: object = None) -> Principal:
     """The principal of a request from its Authorization header and session cookie.
 
-    Blocking (reads the store): call it off the event loop."""
+    Blocking (reads the store): call it off the event loop. ``cache_key``: see
+    :func:`accounts_exist`."""
     token = _bearer(authorization)
     if token is not None:
         account = _token_account(store, token)
@@ -191,7 +195,7 @@ def identify(store, *, authorization: str = "", session_cookie: str = "") -> Pri
             return Principal("link", design_id=s.design_id or "", role=s.role or "",
                              link_label=s.link_label or "", via="cookie", csrf=s.csrf_token,
                              session_hash=h)
-    return ANONYMOUS if accounts_exist(store) else OPEN
+    return ANONYMOUS if accounts_exist(store, key=cache_key) else OPEN
 
 
 # --- what a share link may reach ---------------------------------------------------------------

@@ -159,12 +159,18 @@ def cross_site(request: Request) -> str | None:
     return None
 
 
-def _store(request: Request):
+def _location(request: Request) -> str:
+    """Where the store the routes use lives (the settings the routes see, overrides included)."""
     from app.settings import get_settings
+
+    return request.app.dependency_overrides.get(get_settings, get_settings)().db
+
+
+def _identify(location: str, authorization: str, cookie: str) -> auth.Principal:
     from app.store import open_store
 
-    settings = request.app.dependency_overrides.get(get_settings, get_settings)()
-    return open_store(settings.db)
+    return auth.identify(open_store(location), authorization=authorization,
+                         session_cookie=cookie, cache_key=location)
 
 
 def _public(path: str) -> bool:
@@ -194,17 +200,16 @@ async def guard(request: Request) -> auth.Principal:
         why = cross_site(request)
         if why:
             raise Refused(why)
-    store = _store(request)
+    location = _location(request)
     authorization = request.headers.get("authorization", "")
     cookie = request.cookies.get(auth.SESSION_COOKIE, "")
     principal = None
-    if not authorization and not cookie:
-        known = auth.accounts_exist(store, cached_only=True)
+    if not authorization and not cookie:  # the common case on an open server: no store work
+        known = auth.accounts_exist(None, key=location, cached_only=True)
         if known is not None:
             principal = auth.ANONYMOUS if known else auth.OPEN
-    if principal is None:
-        principal = await run_in_threadpool(auth.identify, store, authorization=authorization,
-                                            session_cookie=cookie)
+    if principal is None:  # opening the store, reading sessions, Argon2: in the thread pool
+        principal = await run_in_threadpool(_identify, location, authorization, cookie)
     request.state.principal = principal
     if _public(path):
         return principal
@@ -245,6 +250,10 @@ def _wants_page(request: Request) -> bool:
 
 async def _auth_required(request: Request, exc: AuthRequired) -> Response:
     target = request.url.path + (f"?{request.url.query}" if request.url.query else "")
+    current = request.headers.get("hx-current-url")  # htmx: back to the page, not the POST
+    if current and _origin_of(current) == _origin_of(str(request.base_url)):
+        parts = urlsplit(current)
+        target = parts.path + (f"?{parts.query}" if parts.query else "")
     login = "/login?next=" + quote(target, safe="")
     if _wants_page(request):
         return RedirectResponse(login, status_code=303)

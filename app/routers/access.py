@@ -68,7 +68,7 @@ def _login_page(request: Request, store, *, next_: str, name: str = "", error: s
                 status_code: int = 200) -> HTMLResponse:
     return TEMPLATES.TemplateResponse(request, "login.html", {
         "next": _safe_next(next_), "name": name, "error": error,
-        "has_accounts": auth.accounts_exist(store)}, status_code=status_code)
+        "has_accounts": store.has_accounts()}, status_code=status_code)
 
 
 @router.get("/login", response_class=HTMLResponse, include_in_schema=False)
@@ -96,7 +96,7 @@ def logout(request: Request, store: StoreDep) -> Response:
     old = request.cookies.get(auth.SESSION_COOKIE)
     if old:
         store.end_session(auth.sha256(old))
-    response = RedirectResponse("/login" if auth.accounts_exist(store) else "/", status_code=303)
+    response = RedirectResponse("/login" if store.has_accounts() else "/", status_code=303)
     response.delete_cookie(auth.SESSION_COOKIE, path="/")
     return response
 

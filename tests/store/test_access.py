@@ -106,8 +106,9 @@ def test_once_an_account_exists_every_route_needs_a_session_or_a_token(client, s
     for path in ("/", f"/d/{did}", f"/d/{did}/r/1/note", "/study"):
         r = client.get(path, follow_redirects=False)
         assert r.status_code == 303 and r.headers["location"].startswith("/login?next="), path
-    r = client.post("/editor/solve", data={"name": "x"}, headers={"HX-Request": "true"})
-    assert r.status_code == 401 and r.headers["hx-redirect"].startswith("/login")
+    r = client.post("/editor/solve", data={"name": "x"},
+                    headers={"HX-Request": "true", "HX-Current-URL": f"http://testserver/d/{did}"})
+    assert r.status_code == 401 and r.headers["hx-redirect"] == f"/login?next=%2Fd%2F{did}"
     # what stays public
     assert client.get("/api/health").status_code == 200
     assert client.get("/login").status_code == 200
