@@ -41,8 +41,8 @@ from app.auth import author_for, may_write, principal_of
 from app.limits import LimitError, check_counts, parse_json, read_json
 from app.note import (TEMPLATES, NoteMeta, compare_results, diff_documents, drawing_svg,
                       note_context, solve_or_errors)
-from app.settings import get_settings
 from app.routers.access import links_for_page
+from app.settings import get_settings
 from app.store import NotFound, Revision, StaleBase, Store, StoreDep, is_design_id
 from engine.model import DesignError, Issue, parse_design
 

@@ -35,7 +35,7 @@ def test_add_list_token_remove(db, monkeypatch, capsys):
     assert token.startswith("swt_") and auth.identify(store, authorization=f"Bearer {token}").name == "ann"
     with sqlite3.connect(db) as con:  # neither secret is in the file
         dump = "\n".join(con.iterdump())
-    assert "a long password" not in dump and token.split("_")[2] not in dump
+    assert "a long password" not in dump and token.split("_", 2)[2] not in dump
     _run(monkeypatch, "list")
     assert "ann" in (out := capsys.readouterr().out) and "1 API token" in out
     assert _run(monkeypatch, "password", "ann", stdin="another password\n") == 0
