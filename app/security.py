@@ -26,6 +26,7 @@ where JSON bodies are read, :func:`app.limits.read_json`.
 """
 from __future__ import annotations
 
+import os
 import secrets
 from typing import Any
 from urllib.parse import parse_qsl, quote, urlsplit
@@ -211,6 +212,9 @@ async def guard(request: Request) -> auth.Principal:
     if principal is None:  # opening the store, reading sessions, Argon2: in the thread pool
         principal = await run_in_threadpool(_identify, location, authorization, cookie)
     request.state.principal = principal
+    if principal.kind == "open" and os.environ.get("SHAFTWRIGHT_REQUIRE_ACCOUNTS") == "1":
+        raise Refused("this server listens on the network but has no accounts left: add one "
+                      "with 'shaftwright users add NAME'", 503)
     if _public(path):
         return principal
     if principal.kind == "anonymous":

@@ -57,6 +57,8 @@ def run(host: str = DEFAULT_HOST, port: int = DEFAULT_PORT, *, log_level: str = 
     why = bind_refusal(host, open_=open_)
     if why:
         raise SystemExit(f"shaftwright: {why}")
+    if not (open_ or _is_loopback(host)):  # should the last account go, refuse, don't open up
+        os.environ["SHAFTWRIGHT_REQUIRE_ACCOUNTS"] = "1"
     import uvicorn
 
     print(f"Shaftwright: open http://{host}:{port}/ (Ctrl+C stops)", flush=True)

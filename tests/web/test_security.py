@@ -153,3 +153,11 @@ def test_plotly_needs_no_inline_style_with_the_files_the_pages_link():
     guard = re.search(r'<meta id="([0-9a-f]{64})"', head).group(1)
     assert f'document.getElementById("{guard}")' in bundle
     assert len(re.findall(r'createElement\("style"\)', bundle)) == 2  # the two handled above
+
+
+def test_a_network_server_whose_accounts_are_gone_refuses_instead_of_opening(client, monkeypatch):
+    monkeypatch.setenv("SHAFTWRIGHT_REQUIRE_ACCOUNTS", "1")  # what serve sets for --host 0.0.0.0
+    r = client.get("/api/health")
+    assert r.status_code == 503 and "no accounts" in r.json()["detail"]
+    monkeypatch.delenv("SHAFTWRIGHT_REQUIRE_ACCOUNTS")
+    assert client.get("/api/health").status_code == 200
