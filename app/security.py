@@ -229,7 +229,7 @@ async def guard(request: Request) -> auth.Principal:
                           "its history and comparisons, and export it, but not save")
     if method in _UNSAFE and principal.via == "cookie":
         token = await _form_token(request)
-        if not token or not secrets.compare_digest(token, principal.csrf):
+        if not token or not secrets.compare_digest(token.encode("utf-8"), principal.csrf.encode("utf-8")):
             raise Refused("the form's security token is missing or out of date: reload the "
                           "page and try again")
     return principal

@@ -150,8 +150,9 @@ def test_sign_in_sets_a_safe_cookie_and_forms_need_the_session_token(client, sto
     form = _form(design, author="typed name")
     r = client.post("/d/save", data=form, headers={"HX-Request": "true"})
     assert r.status_code == 403 and "security token" in r.json()["detail"]
-    r = client.post("/d/save", data=form, headers={"HX-Request": "true", "X-CSRF-Token": "nope"})
-    assert r.status_code == 403
+    for wrong in (b"nope", "nöpe".encode()):  # a wrong token, and one that is not even ASCII
+        r = client.post("/d/save", data=form, headers={"HX-Request": "true", "X-CSRF-Token": wrong})
+        assert r.status_code == 403
     r = client.post("/d/save", data=form, headers={"HX-Request": "true", "X-CSRF-Token": token})
     assert r.status_code == 200 and "Saved as revision 1" in r.text
     did = r.headers["hx-push-url"].rsplit("/", 1)[-1]
