@@ -293,3 +293,17 @@ def test_json_routes_take_json_only(client, design):
     r = client.post(f"/api/designs/{did}/revisions", content=body,
                     headers={"Content-Type": "application/json; charset=utf-8"})
     assert r.status_code == 201
+
+
+def test_behind_tls_the_session_cookie_is_secure(store, db_location):
+    from fastapi.testclient import TestClient
+
+    from app.main import create_app
+    from app.settings import Settings, get_settings
+
+    _add_account(store)
+    app = create_app()
+    app.dependency_overrides[get_settings] = lambda: Settings(db=str(db_location))
+    tls = TestClient(app, base_url="https://testserver")
+    r = tls.post("/login", data={"name": "ann", "password": PASSWORD}, follow_redirects=False)
+    assert r.status_code == 303 and "Secure" in r.headers["set-cookie"]
