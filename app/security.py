@@ -263,7 +263,7 @@ async def _auth_required(request: Request, exc: AuthRequired) -> Response:
         return RedirectResponse(login, status_code=303)
     headers = {"WWW-Authenticate": 'Bearer realm="shaftwright"'}
     if request.headers.get("hx-request"):
-        headers["HX-Redirect"] = login
+        headers.update({"HX-Redirect": login, "HX-Reswap": "none"})
     return JSONResponse({"detail": exc.message, "errors": [{"path": "", "message": exc.message}]},
                         status_code=401, headers=headers)
 
@@ -279,8 +279,9 @@ async def _refused(request: Request, exc: Refused) -> Response:
             "Shaftwright</title><link rel='stylesheet' href='/static/css/note.css'></head>"
             f"<body class='history'><h1>Not allowed</h1><p>{escape(exc.message)}.</p>"
             "<p><a href='/'>Shaftwright</a></p></body></html>", status_code=exc.status_code)
+    headers = {"HX-Reswap": "none"} if request.headers.get("hx-request") else None  # keep the panel
     return JSONResponse({"detail": exc.message, "errors": [{"path": "", "message": exc.message}]},
-                        status_code=exc.status_code)
+                        status_code=exc.status_code, headers=headers)
 
 
 def install_templates(env) -> None:
