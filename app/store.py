@@ -461,8 +461,10 @@ class _SqlStore:
         return row[0] if row else None
 
     def set_password_hash(self, name: str, password_hash: str) -> None:
+        """A new password; the account's browser sessions end (its API tokens stay)."""
         with self._write() as con:
             self._run(con, "UPDATE accounts SET password_hash=? WHERE name=?", (password_hash, name))
+            self._run(con, "DELETE FROM sessions WHERE account=?", (name,))
 
     def add_token(self, account: str, token_id: str, token_hash: str, *, label: str = "") -> None:
         with self._write() as con:

@@ -7,7 +7,8 @@
   its name as their author).
 - ``users token NAME [--label TEXT]``: a new API token for scripts
   (``Authorization: Bearer TOKEN``), printed once: only its hash is kept.
-- ``users password NAME``: a new password (asked for as in ``add``).
+- ``users password NAME``: a new password (asked for as in ``add``); the account's
+  browser sessions end.
 
 The store is the one the server uses (``SHAFTWRIGHT_DB``, see :mod:`app.settings`). Once one
 account exists, the server asks everyone to sign in (see :mod:`app.auth`).

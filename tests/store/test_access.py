@@ -80,12 +80,20 @@ def test_store_keeps_accounts_tokens_links_and_sessions(store, design):
     store.add_session(auth.sha256("old"), csrf_token="t", expires_at="2000-01-01T00:00:00.000+00:00",
                       account="ann")
     assert store.session(auth.sha256("old")) is None  # expired
+    store.add_session(auth.sha256("ann's"), csrf_token="t", expires_at=auth.session_expiry(),
+                      account="ann")
+    assert store.session(auth.sha256("ann's")).account == "ann"
+    store.set_password_hash("ann", auth.hash_password("a new password"))
+    assert store.session(auth.sha256("ann's")) is None  # a new password ends the sessions
+    store.add_session(auth.sha256("ann's"), csrf_token="t", expires_at=auth.session_expiry(),
+                      account="ann")
     store.revoke_link(did, "l1")
     assert store.session(auth.sha256("cookie")) is None  # a revoked link's sessions end
     with pytest.raises(NotFound):
         store.revoke_link(did, "l1")
     store.remove_account("ann")
     assert not store.has_accounts() and store.token(token.split("_")[1]) is None
+    assert store.session(auth.sha256("ann's")) is None  # and so does removing the account
     with pytest.raises(NotFound):
         store.remove_account("ann")
 
