@@ -50,8 +50,13 @@ def cmd_serve(args: argparse.Namespace) -> int:
         port = int(raw)
     if not 0 < port < 65536:
         raise InputError("", f"--port must be 1 to 65535, not {port}")
+    from app.server import bind_refusal
+
+    why = bind_refusal(args.host, open_=args.open)  # no accounts: this machine only, unless --open
+    if why:
+        raise InputError("", why)
     _check_free(args.host, port)
-    run(host=args.host, port=port, workers=args.workers)
+    run(host=args.host, port=port, workers=args.workers, open_=args.open)
     return 0
 
 
@@ -116,6 +121,8 @@ def build_parser() -> argparse.ArgumentParser:
                    help="TCP port to listen on (default SHAFTWRIGHT_PORT, else 8000)")
     p.add_argument("--workers", type=int, default=1, metavar="N",
                    help="server processes sharing the port (SQLite or PostgreSQL; see docs/deployment.md)")
+    p.add_argument("--open", action="store_true", help="listen on a non-loopback --host even "
+                   "though the store has no accounts (everyone who reaches it may do everything)")
     p.set_defaults(func=cmd_serve)
     p = sub.add_parser("note", help="print a design's note to PDF through headless Chromium",
                        description="Print a design file's design note to PDF (A4) through headless "
@@ -138,6 +145,9 @@ def build_parser() -> argparse.ArgumentParser:
                                    "--result prints the result document's (shaft-result/1).")
     p.add_argument("--result", action="store_true", help="the result document's schema instead")
     p.set_defaults(func=cmd_schema)
+    from app.users_cli import add_parser as _users
+
+    _users(sub)  # shaftwright users …: the team's accounts and API tokens
     return parser
 
 

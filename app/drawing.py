@@ -18,7 +18,7 @@ from typing import Any
 
 from app import units
 
-__all__ = ["shaft_svg"]
+__all__ = ["shaft_svg", "SVG_STYLE"]
 
 _SUP_W_MM_FRAC = 0.045  # bearing symbol width as a fraction of shaft length (drawing choice)
 
@@ -46,6 +46,27 @@ def _as_dict(design: Any) -> dict:
     if hasattr(design, "model_dump"):
         return design.model_dump()
     return dict(design)
+
+
+# The drawing's own style sheet: constant, so that the Content-Security-Policy can allow it by
+# its hash (app.security) without allowing inline styles in general.
+SVG_STYLE = (
+    ".shaft-drawing{font:11px ui-sans-serif,system-ui,sans-serif}"
+    ".sd-shaft{fill:#e9e4d6;stroke:#27343c;stroke-width:1.4}"
+    ".sd-bore{fill:none;stroke:#27343c;stroke-width:.8;stroke-dasharray:4 3}"
+    ".sd-axis{stroke:#6c7a80;stroke-width:.7;stroke-dasharray:14 3 2 3}"
+    ".sd-brg{fill:#f7f5ee;stroke:#1f5d63;stroke-width:1.3}.sd-roll{fill:#1f5d63}"
+    ".sd-gear{fill:#e8d2a6;stroke:#7a5516;stroke-width:1.2}.sd-pitch{stroke:#7a5516;stroke-dasharray:3 2}"
+    ".sd-pul{fill:#d7dfcf;stroke:#45613a;stroke-width:1.2}"
+    ".sd-cpl{fill:#d9d4e4;stroke:#4d4470;stroke-width:1.2}"
+    ".sd-load line,.sd-load polygon{stroke:#9c3b25;fill:#9c3b25;stroke-width:1.6}"
+    ".sd-reac line,.sd-reac polygon{stroke:#2d6a3e;fill:#2d6a3e;stroke-width:1.6}"
+    ".sd-fixed{fill:none;stroke:#27343c;stroke-width:1.2}"
+    ".sd-txt{fill:#27343c}.sd-val{fill:#9c3b25;font-weight:600}.sd-rv{fill:#2d6a3e;font-weight:600}"
+    ".sd-dim{stroke:#6c7a80;stroke-width:.7}.sd-dimt{fill:#6c7a80;font-size:10px}"
+    "a.sd-part:focus{outline:none}a.sd-part:focus>*:first-child,a.sd-part:hover>*:first-child"
+    "{stroke:#c0392b;stroke-width:2.4}"
+)
 
 
 def shaft_svg(design: Any, result: Any = None, *, width_px: int = 900, load_case: str | None = None,
@@ -97,23 +118,7 @@ def shaft_svg(design: Any, result: Any = None, *, width_px: int = 900, load_case
         f'<svg xmlns="http://www.w3.org/2000/svg" class="shaft-drawing" viewBox="0 0 {width_px} {height:.0f}" '
         f'width="{width_px}" height="{height:.0f}" role="img" '
         f'aria-label="Side view of the shaft to scale, {units.fmt(L, "length", system, unit=True)} long">',
-        "<style>"
-        ".shaft-drawing{font:11px ui-sans-serif,system-ui,sans-serif}"
-        ".sd-shaft{fill:#e9e4d6;stroke:#27343c;stroke-width:1.4}"
-        ".sd-bore{fill:none;stroke:#27343c;stroke-width:.8;stroke-dasharray:4 3}"
-        ".sd-axis{stroke:#6c7a80;stroke-width:.7;stroke-dasharray:14 3 2 3}"
-        ".sd-brg{fill:#f7f5ee;stroke:#1f5d63;stroke-width:1.3}.sd-roll{fill:#1f5d63}"
-        ".sd-gear{fill:#e8d2a6;stroke:#7a5516;stroke-width:1.2}.sd-pitch{stroke:#7a5516;stroke-dasharray:3 2}"
-        ".sd-pul{fill:#d7dfcf;stroke:#45613a;stroke-width:1.2}"
-        ".sd-cpl{fill:#d9d4e4;stroke:#4d4470;stroke-width:1.2}"
-        ".sd-load line,.sd-load polygon{stroke:#9c3b25;fill:#9c3b25;stroke-width:1.6}"
-        ".sd-reac line,.sd-reac polygon{stroke:#2d6a3e;fill:#2d6a3e;stroke-width:1.6}"
-        ".sd-fixed{fill:none;stroke:#27343c;stroke-width:1.2}"
-        ".sd-txt{fill:#27343c}.sd-val{fill:#9c3b25;font-weight:600}.sd-rv{fill:#2d6a3e;font-weight:600}"
-        ".sd-dim{stroke:#6c7a80;stroke-width:.7}.sd-dimt{fill:#6c7a80;font-size:10px}"
-        "a.sd-part:focus{outline:none}a.sd-part:focus>*:first-child,a.sd-part:hover>*:first-child"
-        "{stroke:#c0392b;stroke-width:2.4}"
-        "</style>",
+        f"<style>{SVG_STYLE}</style>",
     ]
 
     def part(href: str, title: str, body: str) -> str:

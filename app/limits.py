@@ -21,7 +21,7 @@ from app.settings import Settings, get_settings
 
 __all__ = ["LimitError", "MAX_DEPTH", "check_size", "decode_text", "parse_json", "check_counts",
            "guard_document", "read_body", "read_json", "check_work", "MAX_BEAM_WORK",
-           "MAX_TABLE_WORK"]
+           "MAX_TABLE_WORK", "check_json_type"]
 
 MAX_DEPTH = 12  # a design is at most 5 levels deep; common practice for JSON bombs: cap it
 
@@ -116,9 +116,21 @@ def guard_document(value: Any, *, settings: Settings | None = None) -> Any:
     return value
 
 
+def check_json_type(content_type: str | None) -> None:
+    """Refuse (415) a body not sent as ``application/json``: a web page elsewhere can post
+    ``text/plain`` or a form to this server without asking, but not JSON (that needs the
+    browser's permission first), so JSON routes take JSON only."""
+    media = (content_type or "").split(";")[0].strip().lower()
+    if media != "application/json":
+        raise LimitError("", f"send the body as JSON with 'Content-Type: application/json' "
+                             f"(this request said {media or 'nothing'!r})", status_code=415)
+
+
 async def read_body(request, *, settings: Settings | None = None) -> bytes:
-    """Read a request body under the byte limit (stops reading once over it); the bytes, to
-    be parsed with :func:`parse_json` off the event loop."""
+    """Read a JSON request body under the byte limit (stops reading once over it); the bytes,
+    to be parsed with :func:`parse_json` off the event loop. Only ``application/json`` bodies
+    are read (415 otherwise, see :func:`check_json_type`)."""
+    check_json_type(request.headers.get("content-type"))
     settings = _settings(settings)
     limit = settings.max_document_bytes
     declared = request.headers.get("content-length", "")

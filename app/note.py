@@ -32,6 +32,7 @@ from markupsafe import Markup
 import engine
 from app import units
 from app.limits import LimitError, parse_json
+from app.security import install_templates
 from app.settings import get_settings
 from app.svgchart import line_chart
 from engine.model import Design, DesignError, parse_design
@@ -46,6 +47,7 @@ __all__ = [
 ROOT = Path(__file__).resolve().parents[1]
 TEMPLATES = Jinja2Templates(directory=str(ROOT / "templates"))
 TEMPLATES.env.globals["fmt"] = units.fmt
+install_templates(TEMPLATES.env)  # form token, who is signed in, JSON escaping
 
 CAUTIONS = (
     "Results inform preliminary design only; they do not certify it.",

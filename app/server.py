@@ -11,7 +11,7 @@ from __future__ import annotations
 import argparse
 import os
 
-__all__ = ["run", "DEFAULT_HOST", "DEFAULT_PORT", "limit_blas_threads"]
+__all__ = ["run", "DEFAULT_HOST", "DEFAULT_PORT", "limit_blas_threads", "bind_refusal"]
 
 DEFAULT_HOST = "127.0.0.1"
 DEFAULT_PORT = 8000
@@ -23,15 +23,47 @@ def limit_blas_threads(n: int = 1) -> None:
         os.environ.setdefault(var, str(n))
 
 
+def _is_loopback(host: str) -> bool:
+    import ipaddress
+
+    try:
+        return ipaddress.ip_address(host.strip("[]")).is_loopback
+    except ValueError:
+        return host.lower() == "localhost"
+
+
+def bind_refusal(host: str, *, open_: bool = False) -> str | None:
+    """Why the server must not listen on ``host``, or None.
+
+    A server without accounts lets everyone who reaches it read and change every design, so
+    it listens on this computer only (loopback) unless ``open_`` says otherwise."""
+    if open_ or _is_loopback(host):
+        return None
+    from app.settings import Settings
+    from app.store import open_store
+
+    if open_store(Settings.from_env().db).has_accounts():
+        return None
+    return (f"not listening on {host}: this server has no accounts, so anyone on the network "
+            "could read and change every design. Add one with 'shaftwright users add NAME', "
+            "or pass --open to serve everyone anyway.")
+
+
 def run(host: str = DEFAULT_HOST, port: int = DEFAULT_PORT, *, log_level: str = "info",
-        workers: int = 1) -> None:
-    """Serve the designer on ``http://host:port/`` until interrupted (loopback by default).
+        workers: int = 1, open_: bool = False) -> None:
+    """Serve the designer on ``http://host:port/`` until interrupted (loopback by default;
+    another address needs accounts in the store, or ``open_``).
 
     ``workers`` > 1 starts that many server processes on the one port (uvicorn's process
     manager); each has its own solve processes (app.work) and result cache. They share the
     store: SQLite serialises their saves (WAL, one writer at a time), PostgreSQL locks per
     design; see docs/deployment.md."""
     limit_blas_threads()
+    why = bind_refusal(host, open_=open_)
+    if why:
+        raise SystemExit(f"shaftwright: {why}")
+    if not (open_ or _is_loopback(host)):  # should the last account go, refuse, don't open up
+        os.environ["SHAFTWRIGHT_REQUIRE_ACCOUNTS"] = "1"
     import uvicorn
 
     if workers < 1:
@@ -41,7 +73,7 @@ def run(host: str = DEFAULT_HOST, port: int = DEFAULT_PORT, *, log_level: str = 
     print(f"Shaftwright: open http://{host}:{port}/ (Ctrl+C stops)"
           + (f"; {workers} worker processes" if workers > 1 else ""), flush=True)
     uvicorn.run("app.main:create_app", factory=True, host=host, port=int(port), log_level=log_level,
-                access_log=False, workers=workers)
+                access_log=False, workers=workers, server_header=False)  # no server name or version sent
 
 
 if __name__ == "__main__":
@@ -50,5 +82,6 @@ if __name__ == "__main__":
     ap.add_argument("--port", type=int, default=DEFAULT_PORT)
     ap.add_argument("--log-level", default="warning")
     ap.add_argument("--workers", type=int, default=1)
+    ap.add_argument("--open", action="store_true")
     a = ap.parse_args()
-    run(a.host, a.port, log_level=a.log_level, workers=a.workers)
+    run(a.host, a.port, log_level=a.log_level, workers=a.workers, open_=a.open)

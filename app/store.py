@@ -47,12 +47,13 @@ from app.settings import Settings, get_settings
 __all__ = [
     "Store", "SqliteStore", "PostgresStore", "Revision", "RevisionInfo", "ConflictRecord",
     "StoreError", "StoreUnavailable", "NotFound", "StaleBase", "new_design_id", "is_design_id",
+    "Account", "ShareLink", "SessionInfo", "AccountExists",
     "open_store", "get_store", "StoreDep", "ID_BYTES",
 ]
 
 ID_BYTES = 18  # 144 random bits; token_urlsafe gives 24 characters
 _ID_CHARS = set("ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789-_")
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2  # 2: accounts, tokens, share links, sessions
 
 
 def new_design_id() -> str:
@@ -102,6 +103,37 @@ class ConflictRecord(_Frozen):
     created_at: str
 
 
+class Account(_Frozen):
+    """An account of the team (never its password or token hashes)."""
+
+    name: str
+    created_at: str
+    tokens: int = 0
+
+
+class ShareLink(_Frozen):
+    """A share link of a design (the link's secret is not stored, only its hash)."""
+
+    id: str
+    design_id: str
+    role: str  # "view" (view, note, compare, export) or "edit" (also save)
+    label: str
+    created_by: str
+    created_at: str
+    revoked_at: str | None = None
+
+
+class SessionInfo(_Frozen):
+    """A live browser session: of an account, or of a share link (then design and role)."""
+
+    account: str | None = None
+    csrf_token: str
+    link_id: str | None = None
+    design_id: str | None = None
+    role: str | None = None
+    link_label: str | None = None
+
+
 class StoreError(Exception):
     """Base class of the store's errors."""
 
@@ -134,6 +166,10 @@ class NotFound(StoreError, KeyError):
 
     def __str__(self) -> str:  # KeyError would quote the message
         return str(self.args[0]) if self.args else "not found"
+
+
+class AccountExists(StoreError):
+    """An account of that name exists already."""
 
 
 class StaleBase(StoreError):
@@ -207,6 +243,43 @@ CREATE TABLE IF NOT EXISTS conflicts (
 CREATE INDEX IF NOT EXISTS conflicts_by_design ON conflicts (design_id, id);
 """
 
+# Who may use the server (schema 2): accounts with their API tokens, share links of a design
+# with a role, and browser sessions (of an account or of a link). Secrets are stored only as
+# hashes (see app.auth). Laid out on every open, so stores made by schema 1 gain them.
+_ACCESS_TABLES = """
+CREATE TABLE IF NOT EXISTS accounts (
+    name          TEXT PRIMARY KEY,
+    password_hash TEXT NOT NULL,
+    created_at    TEXT NOT NULL
+);
+CREATE TABLE IF NOT EXISTS api_tokens (
+    id          TEXT PRIMARY KEY,
+    account     TEXT NOT NULL REFERENCES accounts(name) ON DELETE CASCADE,
+    token_hash  TEXT NOT NULL,
+    label       TEXT NOT NULL,
+    created_at  TEXT NOT NULL
+);
+CREATE TABLE IF NOT EXISTS share_links (
+    id          TEXT PRIMARY KEY,
+    design_id   TEXT NOT NULL REFERENCES designs(id),
+    role        TEXT NOT NULL CHECK (role IN ('view', 'edit')),
+    token_hash  TEXT NOT NULL UNIQUE,
+    label       TEXT NOT NULL,
+    created_by  TEXT NOT NULL,
+    created_at  TEXT NOT NULL,
+    revoked_at  TEXT
+);
+CREATE INDEX IF NOT EXISTS share_links_by_design ON share_links (design_id, created_at);
+CREATE TABLE IF NOT EXISTS sessions (
+    id_hash     TEXT PRIMARY KEY,
+    account     TEXT REFERENCES accounts(name) ON DELETE CASCADE,
+    link_id     TEXT REFERENCES share_links(id) ON DELETE CASCADE,
+    csrf_token  TEXT NOT NULL,
+    created_at  TEXT NOT NULL,
+    expires_at  TEXT NOT NULL
+);
+"""
+
 _SCHEMA = _TABLES.format(revisions_options=" WITHOUT ROWID",
                          conflict_id="INTEGER PRIMARY KEY AUTOINCREMENT") + """
 CREATE TRIGGER IF NOT EXISTS revisions_never_change BEFORE UPDATE ON revisions
@@ -215,7 +288,7 @@ CREATE TRIGGER IF NOT EXISTS revisions_never_vanish BEFORE DELETE ON revisions
 BEGIN SELECT RAISE(ABORT, 'revisions are immutable'); END;
 CREATE TRIGGER IF NOT EXISTS conflicts_never_change BEFORE UPDATE ON conflicts
 BEGIN SELECT RAISE(ABORT, 'conflict records are immutable'); END;
-"""
+""" + _ACCESS_TABLES
 
 
 def _now() -> str:
@@ -381,6 +454,108 @@ class _SqlStore:
                 problems.append(f"{orphans} design(s) without a revision")
         return problems
 
+    # --- accounts, API tokens, share links, sessions (hashes only; see app.auth) -----------
+
+    def has_accounts(self) -> bool:
+        return self._one("SELECT 1 FROM accounts LIMIT 1", ()) is not None
+
+    def add_account(self, name: str, password_hash: str) -> None:
+        """A new account; :class:`AccountExists` when the name is taken."""
+        with self._write() as con:
+            if self._run(con, "SELECT 1 FROM accounts WHERE name=?", (name,)).fetchone():
+                raise AccountExists(f"there is already an account {name!r}")
+            self._run(con, "INSERT INTO accounts (name, password_hash, created_at) VALUES (?,?,?)",
+                      (name, password_hash, _now()))
+
+    def remove_account(self, name: str) -> None:
+        """Remove an account with its tokens and sessions (its revisions keep its name)."""
+        with self._write() as con:
+            if not self._run(con, "DELETE FROM accounts WHERE name=? RETURNING name",
+                             (name,)).fetchall():
+                raise NotFound(f"no account {name!r}")
+
+    def accounts(self) -> list[Account]:
+        rows = self._all("SELECT a.name, a.created_at, (SELECT COUNT(*) FROM api_tokens t "
+                         "WHERE t.account = a.name) FROM accounts a ORDER BY a.name", ())
+        return [Account(name=r[0], created_at=r[1], tokens=r[2]) for r in rows]
+
+    def password_hash(self, name: str) -> str | None:
+        row = self._one("SELECT password_hash FROM accounts WHERE name=?", (name,))
+        return row[0] if row else None
+
+    def set_password_hash(self, name: str, password_hash: str) -> None:
+        """A new password; the account's browser sessions end (its API tokens stay)."""
+        with self._write() as con:
+            self._run(con, "UPDATE accounts SET password_hash=? WHERE name=?", (password_hash, name))
+            self._run(con, "DELETE FROM sessions WHERE account=?", (name,))
+
+    def add_token(self, account: str, token_id: str, token_hash: str, *, label: str = "") -> None:
+        with self._write() as con:
+            if not self._run(con, "SELECT 1 FROM accounts WHERE name=?", (account,)).fetchone():
+                raise NotFound(f"no account {account!r}")
+            self._run(con, "INSERT INTO api_tokens (id, account, token_hash, label, created_at) "
+                      "VALUES (?,?,?,?,?)", (token_id, account, token_hash, label, _now()))
+
+    def token(self, token_id: str) -> tuple[str, str] | None:
+        """(account, token hash) of an API token, or None."""
+        row = self._one("SELECT account, token_hash FROM api_tokens WHERE id=?", (token_id,))
+        return (row[0], row[1]) if row else None
+
+    def add_link(self, design_id: str, *, link_id: str, role: str, token_hash: str,
+                 label: str, created_by: str) -> ShareLink:
+        with self._write() as con:
+            if not self._run(con, "SELECT 1 FROM designs WHERE id=?", (design_id,)).fetchone():
+                raise NotFound(f"no design {design_id!r}")
+            self._run(con, "INSERT INTO share_links (id, design_id, role, token_hash, label, "
+                      "created_by, created_at) VALUES (?,?,?,?,?,?,?)",
+                      (link_id, design_id, role, token_hash, label, created_by, _now()))
+            row = self._run(con, f"SELECT {_LINK_COLS} FROM share_links WHERE id=?",
+                            (link_id,)).fetchone()
+        return _link(row)
+
+    def links(self, design_id: str) -> list[ShareLink]:
+        rows = self._all(f"SELECT {_LINK_COLS} FROM share_links WHERE design_id=? "
+                         "ORDER BY created_at, id", (design_id,))
+        return [_link(r) for r in rows]
+
+    def link_by_token_hash(self, token_hash: str) -> ShareLink | None:
+        row = self._one(f"SELECT {_LINK_COLS} FROM share_links WHERE token_hash=?", (token_hash,))
+        return _link(row) if row else None
+
+    def revoke_link(self, design_id: str, link_id: str) -> None:
+        """Revoke a link: it stops working at once, and its browser sessions end."""
+        with self._write() as con:
+            if not self._run(con, "UPDATE share_links SET revoked_at=? WHERE id=? AND design_id=? "
+                             "AND revoked_at IS NULL RETURNING id",
+                             (_now(), link_id, design_id)).fetchall():
+                raise NotFound(f"design {design_id!r} has no open link {link_id!r}")
+            self._run(con, "DELETE FROM sessions WHERE link_id=?", (link_id,))
+
+    def add_session(self, id_hash: str, *, csrf_token: str, expires_at: str,
+                    account: str | None = None, link_id: str | None = None) -> None:
+        with self._write() as con:
+            self._run(con, "DELETE FROM sessions WHERE expires_at < ?", (_now(),))
+            self._run(con, "INSERT INTO sessions (id_hash, account, link_id, csrf_token, "
+                      "created_at, expires_at) VALUES (?,?,?,?,?,?)",
+                      (id_hash, account, link_id, csrf_token, _now(), expires_at))
+
+    def session(self, id_hash: str) -> SessionInfo | None:
+        """The live session with this hash (expired, or of a revoked link: None)."""
+        row = self._one(
+            "SELECT s.account, s.csrf_token, l.id, l.design_id, l.role, l.label, l.revoked_at "
+            "FROM sessions s LEFT JOIN share_links l ON l.id = s.link_id "
+            "WHERE s.id_hash=? AND s.expires_at > ?", (id_hash, _now()))
+        if row is None or (row[2] is not None and row[6] is not None):
+            return None
+        if row[0] is None and row[2] is None:
+            return None
+        return SessionInfo(account=row[0], csrf_token=row[1], link_id=row[2], design_id=row[3],
+                           role=row[4], link_label=row[5])
+
+    def end_session(self, id_hash: str) -> None:
+        with self._write() as con:
+            self._run(con, "DELETE FROM sessions WHERE id_hash=?", (id_hash,))
+
 
 class SqliteStore(_SqlStore):
     """:class:`Store` in one SQLite file (WAL journal), created on first use.
@@ -509,6 +684,8 @@ class PostgresStore(_SqlStore):
             con.execute("SELECT pg_advisory_xact_lock(%s)", (_PG_SCHEMA_LOCK,))
             if con.execute("SELECT to_regclass('revisions')").fetchone()[0] is None:
                 con.execute(_PG_SCHEMA)
+            if con.execute("SELECT to_regclass('sessions')").fetchone()[0] is None:
+                con.execute(_ACCESS_TABLES)
 
     def __repr__(self) -> str:
         return f"PostgresStore({_redacted(self.url)!r})"
@@ -543,6 +720,13 @@ class PostgresStore(_SqlStore):
             "(to_regclass('revisions'), to_regclass('conflicts'))")}
         return [f"trigger {name} is missing or disabled: records could be changed"
                 for name in sorted(_PG_TRIGGERS - found)]
+
+
+_LINK_COLS = "id, design_id, role, label, created_by, created_at, revoked_at"
+
+
+def _link(row) -> ShareLink:
+    return ShareLink(**dict(zip(_LINK_COLS.split(", "), row)))
 
 
 _CON_COLS = "id, design_id, base_revision, latest_revision, document, comment, author, created_at"

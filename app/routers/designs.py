@@ -43,11 +43,13 @@ from fastapi.responses import HTMLResponse, JSONResponse, RedirectResponse, Resp
 from starlette.concurrency import run_in_threadpool
 
 import engine
+from app.auth import author_for, may_write, principal_of
 from app.errors import Conflict
 from app.limits import LimitError, check_counts, parse_json, read_body
 from app.merge import Merge, merge3
 from app.note import (TEMPLATES, NoteMeta, compare_results, diff_documents, drawing_svg,
                       note_context, solve_or_errors)
+from app.routers.access import links_for_page
 from app.settings import get_settings
 from app.store import NotFound, Revision, StaleBase, Store, StoreDep, is_design_id
 from engine.model import DesignError, Issue, parse_design
@@ -240,20 +242,20 @@ async def create_design(request: Request, store: StoreDep) -> JSONResponse:
 
     def work() -> JSONResponse:
         document, author, comment, _, _ = _split_body(parse_json(raw), wrapped=False)
-        rev = _save(store, None, document, author=author, comment=comment, base=None)
+        rev = _save(store, None, document, author=author_for(request, author), comment=comment, base=None)
         return JSONResponse(_revision_json(rev), status_code=201)
 
     return await run_in_threadpool(work)
 
 
 @router.post("/api/designs/import", status_code=201)
-async def import_design(file: UploadFile, store: StoreDep) -> JSONResponse:
+async def import_design(request: Request, file: UploadFile, store: StoreDep) -> JSONResponse:
     """Import a design file (multipart field ``file``); a bad file stores nothing."""
     raw = await _read_upload(file)
 
     def work() -> JSONResponse:
         document = _validated(parse_json(raw))
-        rev = _save(store, None, document, author="",
+        rev = _save(store, None, document, author=author_for(request, ""),
                     comment=f"imported from {file.filename or 'a file'}"[:MAX_COMMENT], base=None)
         return JSONResponse(_revision_json(rev), status_code=201)
 
@@ -304,8 +306,11 @@ async def add_revision(design_id: str, request: Request, store: StoreDep) -> JSO
     def work() -> JSONResponse:
         store.latest(design_id)
         document, author, comment, base, resolutions = _split_body(parse_json(raw), wrapped=True)
+        refused = may_write(request, design_id)  # a read-only link, or another design's link
+        if refused:
+            return JSONResponse({"detail": refused}, status_code=403)
         try:
-            rev, merge, stale = _save_merging(store, design_id, document, author=author,
+            rev, merge, stale = _save_merging(store, design_id, document, author=author_for(request, author),
                                               comment=comment, base=base, resolutions=resolutions)
         except MergeClash as exc:
             raise _clash_conflict(exc, document) from None
@@ -366,18 +371,26 @@ def open_latest(request: Request, design_id: str, store: StoreDep) -> HTMLRespon
     _check_id(design_id)
     latest = store.latest(design_id)
     shown = store.revision(design_id, _rev_n(from_)) if from_ else latest
+    if principal_of(request).role == "view":  # a read-only link: the read-only page
+        return _revision_page(request, shown, store)
     extra: dict[str, Any] = {}
     merged, n = _int(request.query_params.get("merged")), _int(request.query_params.get("r"))
     if merged and n and merged < 2**63 and n < 2**63:
         report = _merge_report(store, design_id, latest, merged, n)
         if report:
             extra = {"status": "merged", "merge": report}
-    share = _share_context(latest, base=latest.n, editing_from=shown.n, **extra)
+    share = _share_context(latest, base=latest.n, editing_from=shown.n,
+                           links=links_for_page(request, store, design_id), **extra)
     return _editor_or_view(request, shown.document, share, shown, store)
 
 
 def _int(text: str | None) -> int | None:
     return int(text) if text and text.isascii() and text.isdigit() else None
+
+
+def _conflicts_for(request: Request, store: Store, design_id: str) -> list:
+    """Refused saves hold others' unsaved work: not shown to a read-only link."""
+    return [] if principal_of(request).role == "view" else store.conflicts(design_id)
 
 
 def _revision_page(request: Request, rev: Revision, store: Store) -> HTMLResponse:
@@ -387,7 +400,8 @@ def _revision_page(request: Request, rev: Revision, store: Store) -> HTMLRespons
     return TEMPLATES.TemplateResponse(request, "revisions.html", {
         "design_id": rev.design_id, "revisions": revs, "selected": rev, "latest_n": revs[-1].n,
         "result": result, "errors": errors, "drawing": drawing,
-        "conflicts": store.conflicts(rev.design_id)})
+        "conflicts": _conflicts_for(request, store, rev.design_id),
+        "links": links_for_page(request, store, rev.design_id)})
 
 
 @router.get("/d/{design_id}/r/{n}", response_class=HTMLResponse)
@@ -404,7 +418,8 @@ def history(request: Request, design_id: str, store: StoreDep) -> HTMLResponse:
     revs = store.revisions(design_id)
     return TEMPLATES.TemplateResponse(request, "revisions.html", {
         "design_id": design_id, "revisions": revs, "selected": None, "latest_n": revs[-1].n,
-        "conflicts": store.conflicts(design_id)})
+        "conflicts": _conflicts_for(request, store, design_id),
+        "links": links_for_page(request, store, design_id)})
 
 
 @router.get("/d/{design_id}/compare", response_class=HTMLResponse)
@@ -460,8 +475,12 @@ def _save_form(request: Request, store: Store, form: dict[str, str], form_to_des
         if issues:
             raise DesignError(issues)
         _validated(document)
-        author = _text(share_in["author"], "author", MAX_AUTHOR)
+        author = author_for(request, _text(share_in["author"], "author", MAX_AUTHOR))
         comment = _text(share_in["comment"], "comment", MAX_COMMENT)
+        refused = may_write(request, design_id)
+        if refused:
+            return _panel(request, _share_context(None, errors=[Issue(path="", message=refused)],
+                                                  design_id=design_id or "", **share_in), 403)
         if design_id is not None:
             _check_id(design_id)
             store.latest(design_id)
@@ -483,7 +502,8 @@ def _save_form(request: Request, store: Store, form: dict[str, str], form_to_des
         if request.headers.get("hx-request"):
             return Response(status_code=200, headers={"HX-Redirect": url})
         return RedirectResponse(url, status_code=303)
-    share = _share_context(rev, status="saved", comment="")
+    share = _share_context(rev, status="saved", comment="",
+                           links=links_for_page(request, store, rev.design_id))
     response = _panel(request, share, 200)
     if request.headers.get("hx-request"):
         response.headers["HX-Push-Url"] = f"/d/{rev.design_id}"
@@ -585,7 +605,7 @@ async def import_page(request: Request, file: UploadFile, store: StoreDep) -> Re
                                import_name=file.filename or "")
         return _panel(request, share, getattr(exc, "status_code", 422))
     rev = await run_in_threadpool(lambda: _save(
-        store, None, document, author="",
+        store, None, document, author=author_for(request, ""),
         comment=f"imported from {file.filename or 'a file'}"[:MAX_COMMENT], base=None))
     url = f"/d/{rev.design_id}"
     if request.headers.get("hx-request"):

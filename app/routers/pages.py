@@ -31,6 +31,7 @@ from starlette.concurrency import run_in_threadpool
 
 import engine
 from app import drawing, plots, results_view, units, web, work
+from app.security import install_templates
 from engine.bearings.catalogue import BUNDLED_PATH
 from engine.model import Issue
 
@@ -43,6 +44,7 @@ templates = Jinja2Templates(directory=str(ROOT / "templates"))
 templates.env.globals.update(fmt=units.fmt, unit_label=units.unit_label, slug=web.slug,
                              quantity_of_unit=units.quantity_of_unit,
                              bearing_label=lambda t: web.BEARING_LABELS.get(t or "", t or "rigid"))
+install_templates(templates.env)  # form token, who is signed in, JSON escaping
 router = APIRouter()
 
 import plotly as _plotly  # noqa: E402

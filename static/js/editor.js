@@ -176,6 +176,23 @@
     var f = document.getElementById("bt-file"); if (f) f.focus();
   });
 
+  // the form never submits itself (Enter in a field): every edit goes through htmx
+  document.addEventListener("submit", function (ev) {
+    if (ev.target && ev.target.id === "design-form") ev.preventDefault();
+  });
+  // typing in a structural control (the kind of part to add, the bearing table file) is not
+  // an edit to solve: that control posts its own operation
+  document.addEventListener("htmx:confirm", function (ev) {
+    var d = ev.detail || {}, t = d.triggeringEvent && d.triggeringEvent.target;
+    if (d.elt && d.elt.id === "design-form" && t && t.closest && t.closest("[data-structural]")) ev.preventDefault();
+  });
+  // "add part" adds a part of the kind chosen beside it
+  document.addEventListener("htmx:configRequest", function (ev) {
+    var src = ev.detail.elt && ev.detail.elt.getAttribute && ev.detail.elt.getAttribute("data-kind-from");
+    var sel = src && document.getElementById(src);
+    if (sel) ev.detail.parameters.op = "add:elements:" + sel.value;
+  });
+
   document.addEventListener("input", function (ev) { if (ev.target.closest && ev.target.closest("#design-form")) save(); });
   document.body.addEventListener("htmx:afterSettle", function () { reopen(); applyIssues(); syncCases(); drawPlot(); save(); });
 

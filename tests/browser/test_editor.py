@@ -174,7 +174,7 @@ def test_reload_keeps_working_copy(page, live_server):
     _wait_fresh(page)
     page.reload()
     page.wait_for_selector("html[data-ready='1']")
-    page.wait_for_function("document.querySelector(\"[name='name']\").value === 'my own countershaft'")
+    page.wait_for_function("() => document.querySelector(\"[name='name']\").value === 'my own countershaft'")
     page.locator("#restored").wait_for(state="visible")
 
 
@@ -193,7 +193,7 @@ def test_change_kind_remove_and_reorder_rows(page, live_server, artifacts):
     page.wait_for_function("(n) => document.querySelector(\"[name='load_cases[1].name']\").value === n", arg=first)
     n = page.locator("[name$='].speed_rpm']").count()
     page.locator(f"#op-remove-load_cases-{n - 1}").click()
-    page.wait_for_function(f"document.querySelectorAll(\"[name$='].speed_rpm']\").length === {n - 1}")
+    page.wait_for_function(f"() => document.querySelectorAll(\"[name$='].speed_rpm']\").length === {n - 1}")
     if n > 2:  # fractions no longer sum to one: message at the duty-cycle section, results kept
         page.wait_for_selector("#m-sec-load_cases:not(:empty)")
         assert "sum" in page.locator("#m-sec-load_cases").inner_text()
@@ -217,7 +217,7 @@ def test_keyboard_only_add_part(page, live_server):
     page.keyboard.press("Tab")
     assert page.evaluate("document.activeElement.id") == "op-add-elements"
     page.keyboard.press("Enter")
-    page.wait_for_function("document.activeElement && /^elements\\[\\d+\\]\\.x_mm$/.test(document.activeElement.name)")
+    page.wait_for_function("() => document.activeElement && /^elements\\[\\d+\\]\\.x_mm$/.test(document.activeElement.name)")
     name = page.evaluate("document.activeElement.name")
     idx = name.split("[")[1].split("]")[0]
     assert page.locator(f"[name='elements[{idx}].kind']").input_value() == "coupling"
@@ -277,7 +277,7 @@ def test_results_summary_first_diagrams_next_details_by_keyboard(page, live_serv
     # the jump links work from the keyboard
     page.focus("#summary nav.jump a[href='#h-checks']")
     page.keyboard.press("Enter")
-    page.wait_for_function("location.hash === '#h-checks'")
+    page.wait_for_function("() => location.hash === '#h-checks'")
     top = page.evaluate("document.getElementById('h-checks').getBoundingClientRect().top")
     assert 0 <= top < 200
     assert page.console_errors == []
