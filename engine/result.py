@@ -73,7 +73,8 @@ class Candidate(_Out):
     s0: float
     limiting_speed_rpm: float | None = None
     ok: bool
-    reasons: list[str] = []
+    reasons: list[str] = []  # why it fails (empty when ok)
+    warnings: list[str] = []  # what to watch that does not fail it (a load below the minimum load)
     C_margin_pct: float | None = None  # (C / the support's required_C_N − 1)·100
 
 

@@ -311,8 +311,9 @@ def _candidates(cat: Catalogue, sp: _Support, sc: Screen, order: np.ndarray, req
             reasons.append(f"speed {_fmt(sc.n_max_rpm)} rpm > limiting {_fmt(sc.limiting_speed_rpm[pos])} rpm")
         ratio = _load_ratio(sc, pos, af)
         j = int(np.argmin(ratio))
+        warns = []
         if ratio[j] < lim:
-            reasons.append(f"warning: load P = {ratio[j]:.3g}·C in '{cases[j].name}' is below the minimum "
+            warns.append(f"load P = {ratio[j]:.3g}·C in '{cases[j].name}' is below the minimum "
                            f"{lim:g}·C (the rolling elements may skid)")
         nl = cat.limiting_speed_rpm[r]
         out.append(Candidate(
@@ -322,7 +323,7 @@ def _candidates(cat: Catalogue, sp: _Support, sc: Screen, order: np.ndarray, req
             P_N=float(sc.Pm_N[pos]), L10_h=float(sc.L10_h[pos]), Lnm_h=float(sc.Lnm_h[pos]),
             s0=float(min(sc.s0[pos], LIFE_CAP_H)),
             limiting_speed_rpm=None if np.isnan(nl) else float(nl), ok=bool(sc.ok[pos]),
-            reasons=reasons,
+            reasons=reasons, warnings=warns,
             C_margin_pct=float((sc.C_N[pos] / required_C - 1.0) * 100.0) if required_C > 0 else None))
     return out
 
@@ -435,11 +436,16 @@ def _friction(design: Design, sp: _Support, sc: Screen, pos: int, cat: Catalogue
         nu, how = life.nu, f"ν = {life.nu:.3g} mm²/s"
     elif req.lubricant is not None:
         lub = req.lubricant
-        nu = float(viscosity_at(lub.operating_temp_C, iso_vg=lub.iso_vg, viscosity_index=lub.viscosity_index))
-        how = f"ν = {nu:.3g} mm²/s"
+        try:
+            nu = float(viscosity_at(lub.operating_temp_C, iso_vg=lub.iso_vg, viscosity_index=lub.viscosity_index))
+            how = f"ν = {nu:.3g} mm²/s"
+        except ValueError:
+            nu, how = None, "the lubricant's viscosity lies outside the viscosity relation"
     else:
+        nu, how = None, "no lubricant given"
+    if nu is None:
         nu = float(viscosity_at(70.0, iso_vg=68.0))
-        how = f"ν = {nu:.3g} mm²/s assumed (ISO VG 68 at 70 °C: no lubricant given)"
+        how = f"ν = {nu:.3g} mm²/s assumed, ISO VG 68 at 70 °C ({how})"
     af = float(req.application_factor)
     M = friction_torque_Nmm(sp.kind, dm_mm=dm, speed_rpm=n, nu_mm2_s=nu, Fr_N=Fr[:, sp.i], Fa_N=sc.Fa_N[pos],
                             P0_N=sc.P0_N[pos] / af, C0_N=float(sc.C0_N[pos]),

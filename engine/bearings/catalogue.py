@@ -31,7 +31,10 @@ __all__ = ["COLUMNS", "REQUIRED", "BUNDLED_PATH", "Catalogue", "parse_catalogue"
            "load_catalogue", "bundled_catalogue"]
 
 COLUMNS = ("designation", "bearing_type", "series", "d_mm", "D_mm", "B_mm", "contact_angle_deg",
-           "C_N", "C0_N", "Cu_N", "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0", "a_mm")
+           "C_N", "C0_N", "Cu_N", "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0")
+# optional columns a table may add (design-format.md, keys added later): a_mm, the pressure
+# centre's distance from the bearing's mid-width toward its back face
+OPTIONAL = ("a_mm",)
 REQUIRED = ("designation", "bearing_type", "series", "d_mm", "D_mm", "B_mm", "C_N", "C0_N")
 _NUMERIC = ("d_mm", "D_mm", "B_mm", "contact_angle_deg", "C_N", "C0_N", "Cu_N",
             "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0", "a_mm")
@@ -134,12 +137,12 @@ def parse_catalogue(text: str, *, name: str = "bearing table") -> Catalogue:
     dup = sorted({h for h in header if header.count(h) > 1})
     if dup:
         raise DesignError([Issue(path="header", message=f"column(s) {', '.join(dup)} appear twice")])
-    extra = [h for h in header if h not in COLUMNS]
+    extra = [h for h in header if h not in COLUMNS + OPTIONAL]
     if extra:
         warnings.append(f"{name}: column(s) {', '.join(extra)} are not used and were ignored")
     col = {h: k for k, h in enumerate(header)}
 
-    cols: dict[str, list] = {c: [] for c in COLUMNS}
+    cols: dict[str, list] = {c: [] for c in COLUMNS + OPTIONAL}
     line_no: list[int] = []
     seen: dict[str, int] = {}
     cu_estimated = 0
