@@ -211,29 +211,17 @@ def _first_non_finite(items: Sequence[tuple[str, Any]]) -> tuple[str, float] | N
     return None
 
 
-def _all_floats(objs: Sequence[Any]) -> Any:
-    """Every float field of result objects and of the objects in their lists, one stream."""
-    for obj in objs:
-        for v in obj.__dict__.values():
-            t = type(v)
-            if t is float:
-                yield v
-            elif t is list and v:
-                t0 = type(v[0])
-                if t0 is float:
-                    yield from v
-                elif hasattr(v[0], "__dict__"):
-                    yield from _all_floats(v)
-
-
 def _check_objects(design: Design, bearings: list, sc, checks: list) -> None:
     """Backstop on the numbers the bearing layer and the shaft checks computed (lives,
     safety factors, sections, frequencies): finite, or an EngineError naming the support or
     the shaft. One array test over all of them; the path is looked for only on a hit."""
-    objs = [*bearings, *sc.sections, *checks]
-    extra = [v for v in (sc.critical_speed_rpm, sc.rayleigh_rpm, sc.torsional_rpm, sc.min_safety_factor)
+    objs = [*bearings, *(c for br in bearings for c in br.candidates),
+            *(m for br in bearings for m in br.smallest_by_series), *sc.sections, *checks]
+    vals = [v for o in objs for v in o.__dict__.values() if type(v) is float]
+    vals += [v for br in bearings for v in br.Fr_N] + [v for br in bearings for v in br.Fa_N]
+    vals += [v for v in (sc.critical_speed_rpm, sc.rayleigh_rpm, sc.torsional_rpm, sc.min_safety_factor)
              if v is not None]
-    if np.isfinite(np.fromiter(_all_floats(objs), float)).all() and np.isfinite(extra).all():
+    if np.isfinite(vals).all():
         return
     items = [(f"bearings[{i}]", br) for i, br in enumerate(bearings)]
     items += [(f"shaft.sections[{i}]", s) for i, s in enumerate(sc.sections)]

@@ -140,3 +140,26 @@ def test_a_long_study_runs_as_a_job_with_progress_and_can_be_stopped(client):
         time.sleep(0.1)
     assert r.status_code == 200 and "stopped on request" in r.text
     assert client.get("/study/job/no-such-job").status_code == 404
+
+
+def test_cli_streams_csv_rows_per_chunk_and_stops_on_ctrl_c(capsys, monkeypatch):
+    """CSV rows are written chunk by chunk; an interrupt (Ctrl-C) keeps the rows solved so far
+    and says so on stderr; no progress bar when stderr is not a terminal."""
+    import engine.study as study_mod
+
+    real = study_mod._variant_figures
+    calls = []
+
+    def interrupted_after_two(*args, **kw):
+        calls.append(1)
+        if len(calls) > 2:
+            raise KeyboardInterrupt
+        return real(*args, **kw)
+
+    monkeypatch.setattr(study_mod, "_variant_figures", interrupted_after_two)
+    monkeypatch.setitem(study_mod.iter_study.__kwdefaults__, "chunk", 3)  # chunks of 3 variants
+    assert main(["study", DEMO, "--vary", "supports.B.x_mm=242:268:10", "--csv"]) == 0
+    cap = capsys.readouterr()
+    rows = list(csv.reader(io.StringIO(cap.out)))
+    assert len(rows) == 1 + 6 and float(rows[1][0]) == 242.0
+    assert "stopped: 6 of 10 variants solved" in cap.err and "variant/s" not in cap.err
