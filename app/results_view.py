@@ -39,7 +39,8 @@ FAMILIES: tuple[tuple[str, str], ...] = (
 _FAMILY_TITLE = dict(FAMILIES)
 _FAMILY_ORDER = {k: i for i, (k, _) in enumerate(FAMILIES)}
 RANK = {"fail": 0, "warn": 1, "ok": 2}
-_STIFFNESS = {"shaft.bearing_slope", "shaft.gear_slope", "shaft.gear_deflection", "shaft.mesh_slope"}
+_STIFFNESS = {"shaft.bearing_slope", "shaft.gear_slope", "shaft.gear_deflection", "shaft.mesh_slope",
+              "shaft.bevel_axial", "shaft.bevel_radial"}
 _STRENGTH = {"shaft.fatigue", "shaft.yield"}
 _DYNAMICS = {"shaft.critical_speed"}
 SOURCE_CHARS = 64  # one line of the check column at 1440 px; narrower, CSS ends the line with "…"

@@ -21,7 +21,9 @@ import engine
 from engine.checks import shaft_checks, sort_checks
 from engine.bearings import BearingOutcome, Catalogue, parse_catalogue, rate_bearings_many
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_meshes, solve_bending_many
-from engine.bearings.mounted import SOURCE_PRESSURE_CENTRE, SOURCE_STIFFNESS, pressure_centre_offset_mm, radial_stiffness
+from engine.bearings.mounted import (SOURCE_PRESSURE_CENTRE, SOURCE_STIFFNESS, axial_deflection_mm,
+                                     pressure_centre_offset_mm, radial_stiffness, row_geometry)
+from engine.stiffness import bevel_mesh_checks
 from engine.dynamics import dynamics_elements, lateral_frequencies_many
 from engine.loads import CaseLoads, case_loads
 from engine.model import Design, DesignError, EngineError, Issue, parse_design
@@ -420,6 +422,28 @@ def _stiffness(a: Analysis, s, j: int, i: int) -> float | None:
     return s.radial_stiffness_N_per_mm
 
 
+def _bevel_checks(a: Analysis, rated: BearingOutcome, Fa: np.ndarray) -> list:
+    """Bevel gears' displacement along and across the axis (engine.stiffness.bevel_mesh_checks):
+    the axial path runs from the support carrying the most axial load in each case, through
+    that bearing's own axial deflection where it has a contact angle."""
+    design = a.design
+    if not any(e.kind == "bevel_gear" for e in design.elements):
+        return []
+    nc = len(design.load_cases)
+    carrier = np.argmax(Fa, axis=1) if Fa.size else np.zeros(nc, int)
+    x_ax = np.array([a.x_load_mm[int(i)] for i in carrier], float)
+    dax = np.zeros(nc)
+    for j, i in enumerate(carrier):
+        i = int(i)
+        if i in rated.rated and rated.catalogue is not None:
+            g = row_geometry(rated.catalogue, rated.rated[i], design.supports[i].bearing_type)
+            dax[j] = float(axial_deflection_mm(g, design.supports[i].bearing_type, Fa[j, i],
+                                               paired=rated.paired.get(i, False)))
+    EA = design.shaft.material.E_GPa * 1e3 * a.mesh.A_mm2
+    return bevel_mesh_checks(design, u_mm=a.beam.u_mm, element_nodes=a.mesh.element_nodes, x_mm=a.mesh.x_mm,
+                             N_N=a.N_N, EA_N=EA, x_axial_mm=x_ax, bearing_axial_mm=dax)
+
+
 def _finish(a: Analysis, rated: BearingOutcome, diagrams: bool, passes: int | None = None) -> Result:
     """Axial force and torque, shaft checks, backstop and the Result of one analysed design
     whose bearings are rated."""
@@ -431,7 +455,7 @@ def _finish(a: Analysis, rated: BearingOutcome, diagrams: bool, passes: int | No
     carry_axial(a, Fx)
     _check_arrays(a, Fa, Fx)
     sc = shaft_checks(a)
-    checks = sort_checks(rated.checks + sc.checks)
+    checks = sort_checks(rated.checks + sc.checks + _bevel_checks(a, rated, Fa))
     _check_objects(design, rated.bearings, sc, checks)
     u_res = np.hypot(a.beam.u_mm[:, 0], a.beam.u_mm[:, 1])  # (nc, N)
     kmax = np.argmax(u_res, axis=1)

@@ -60,7 +60,7 @@ from engine.bearings.ratings import internal_geometry
 
 __all__ = ["SOURCE_PRESSURE_CENTRE", "SOURCE_STIFFNESS", "SOURCE_MIN_LOAD", "SOURCE_FRICTION",
            "MIN_LOAD_RATIO", "FRICTION_FACTORS", "contact_tan", "pressure_centre_offset_mm",
-           "row_geometry", "radial_deflection_mm", "radial_stiffness", "minimum_load_ratio",
+           "row_geometry", "radial_deflection_mm", "axial_deflection_mm", "radial_stiffness", "minimum_load_ratio",
            "friction_torque_Nmm"]
 
 SOURCE_PRESSURE_CENTRE = ("pressure centre a = (dm/2)·tan α toward the back face, tan α = e/1.5 for tapered "
@@ -152,6 +152,22 @@ def radial_deflection_mm(geom, bearing_type: str, Fr_N, *, paired: bool = False)
         return 4.36e-4 * Q ** (2.0 / 3.0) / geom.Dw_mm ** (1.0 / 3.0) / ca, 2.0 / 3.0
     Q = 4.08 * Fr / (z * ca)
     return 7.68e-5 * Q ** 0.9 / geom.Lwe_mm ** 0.8 / ca, 0.9
+
+
+def axial_deflection_mm(geom, bearing_type: str, Fa_N, *, paired: bool = False):
+    """Axial displacement δa [mm] of a bearing with a contact angle under a pure axial load Fa
+    [N]: every element carries Q = Fa/(i·Z·sin α), δa = δ(Q)/sin α (Palmgren's relations as in
+    :func:`radial_deflection_mm`; zero clearance). Zero for a bearing without a contact angle
+    (its axial deflection is not modelled)."""
+    Fa = np.abs(np.asarray(Fa_N, float))
+    if geom.alpha_deg <= 0:
+        return np.zeros_like(Fa)
+    sa = math.sin(math.radians(geom.alpha_deg))
+    z = geom.i * geom.Z * (2 if paired else 1)
+    Q = Fa / (z * sa)
+    if bearing_type in BALL_TYPES:
+        return 4.36e-4 * Q ** (2.0 / 3.0) / geom.Dw_mm ** (1.0 / 3.0) / sa
+    return 7.68e-5 * Q ** 0.9 / geom.Lwe_mm ** 0.8 / sa
 
 
 def minimum_load_ratio(bearing_type: str) -> float:

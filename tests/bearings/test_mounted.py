@@ -224,3 +224,30 @@ def test_friction_torque_is_reported_per_case():
         for M, W, case in zip(b.friction_torque_Nm, b.power_loss_W, COUNTERSHAFT["load_cases"]):
             assert M > 0 and W == pytest.approx(M * case["speed_rpm"] * 2 * math.pi / 60, rel=1e-9)
         assert any("Palmgren" in n for n in b.notes)
+
+
+def test_bevel_gear_is_held_to_mesh_displacement_limits_not_the_spur_slope():
+    """Along the axis: the shaft's stretch N·l/(E·A) between the locating support and the gear
+    (plain supports: no bearing deflection), N the bevel's axial force Wt·tan φ·sin γ
+    (design-format.md); across: the deflection at the gear. Limits: common practice, 0.075 mm."""
+    d = {"name": "bevel", "gravity": None,
+         "shaft": {"material": {"name": "steel", "E_GPa": 205, "G_GPa": 80, "density_kg_m3": 7850,
+                                "Su_MPa": 850, "Sy_MPa": 650},
+                   "segments": [{"length_mm": 300, "d_mm": 40}]},
+         "supports": [{"id": "A", "x_mm": 50, "bearing_type": None, "axial": "both"},
+                      {"id": "B", "x_mm": 250, "bearing_type": None, "axial": "none"}],
+         "elements": [{"id": "C", "kind": "coupling", "x_mm": 10, "torque_Nm": None},
+                      {"id": "BV", "kind": "bevel_gear", "x_mm": 280, "pitch_d_mm": 100, "pressure_angle_deg": 20,
+                       "pitch_cone_angle_deg": 30, "apex": "+x", "torque_Nm": 100}],
+         "load_cases": [{"name": "run", "speed_rpm": 500}]}
+    r = engine.solve(d)
+    codes = {c.code for c in r.checks if c.where == "BV"}
+    assert {"shaft.bevel_axial", "shaft.bevel_radial"} <= codes and "shaft.gear_slope" not in codes
+    ax = next(c for c in r.checks if c.code == "shaft.bevel_axial")
+    Fa = 100e3 / 50 * math.tan(math.radians(20)) * math.sin(math.radians(30))
+    assert ax.value == pytest.approx(Fa * (280 - 50) / (205e3 * math.pi / 4 * 40**2), rel=1e-6)
+    assert ax.limit == 0.075 and "common practice" in ax.source
+    rad = next(c for c in r.checks if c.code == "shaft.bevel_radial")
+    dg = r.diagrams
+    i = max(k for k, x in enumerate(dg.x_mm) if abs(x - 280) < 1e-9)
+    assert rad.value == pytest.approx(dg.load_cases["run"]["u_mm"][i], rel=1e-9)
