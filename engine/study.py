@@ -438,6 +438,8 @@ def _set(data: dict, var: Variable, value: Any) -> dict:
         for it in items:
             if it.get("id") == ident:
                 it[key] = value
+                if kind == "supports" and key in ("bearing_type", "bore_mm", "contact_angle_deg"):
+                    it.pop("designation", None)  # the designer's bearing belonged to the old seat or type
         out[kind] = items
         return out
     m = _RX_SEG.match(p)
