@@ -296,7 +296,7 @@ def results_view(result: Any) -> ResultsView:
 
     gov: list[Governing] = []
     for b in result.bearings:
-        chosen = b.candidates[0] if b.candidates else None
+        chosen = next((c for c in b.candidates if c.designation == b.designation), b.candidates[0] if b.candidates else None)
         des = chosen.designation if chosen is not None else ""
         life = _first(rows, {"bearing.life"}, b.id)
         if life is not None:
