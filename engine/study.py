@@ -526,23 +526,12 @@ def _slopes_from_checks(result: Result) -> dict[str, tuple[float, float | None]]
     return out
 
 
-def _slopes_from_beam(design: Design) -> dict[str, float]:
-    from engine.solve import analyse  # the structural step alone
-
-    a = analyse(design)
-    s = np.hypot(a.beam.slope_rad[:, 0], a.beam.slope_rad[:, 1])  # (cases, nodes)
-    return {sup.id: float(s[:, node].max()) for sup, node in zip(design.supports, a.mesh.support_nodes)}
-
-
 def figures_of(design: Design, result: Result, *, held: dict[str, str] | None = None,
                values: tuple = ()) -> VariantFigures:
     """The study figures of one solved design. ``held`` maps support id -> designation of the
     bearing to follow (default: each support's first-ranked candidate)."""
     held = held or {}
-    slopes = _slopes_from_checks(result)
-    beam_slopes = None
-    if not slopes and any(s.bearing_type for s in design.supports):
-        beam_slopes = _slopes_from_beam(design)
+    slopes = _slopes_from_checks(result)  # the engine's own bearing-slope checks, nothing solved here
     bearings: list[BearingFigure] = []
     all_ok = True
     for br in result.bearings:
@@ -552,10 +541,7 @@ def figures_of(design: Design, result: Result, *, held: dict[str, str] | None = 
         reselected = bool(want) and pick is None
         if pick is None and cands:  # the bearing the support's checks rate (the designer's, else the first ranked)
             pick = next((c for c in cands if c.designation == br.designation), cands[0])
-        if beam_slopes is not None:
-            slope, limit = beam_slopes.get(br.id), None
-        else:
-            slope, limit = slopes.get(br.id, (None, None))
+        slope, limit = slopes.get(br.id, (None, None))
         if pick is None:
             all_ok = False
             bearings.append(BearingFigure(id=br.id, bearing_type=br.bearing_type, ok=False,
