@@ -23,6 +23,13 @@ the median factor of the rows that fit each seat; the split is then recomputed w
 top-ranked rows and those supports screened again (one refinement pass). The reported split
 is that of the top-ranked rows.
 
+The rated bearing of a support (the one its checks, notes and result rate) is the designer's
+``supports[].designation`` when given (:func:`check_designations` refuses one that is not a
+row of the table, of another type, or of another bore, at that key), else the first ranked
+candidate; ``required_C_N`` is the rating that gives the required life at the stated
+reliability with aISO = 1 under that bearing's duty-cycle equivalent load, and each candidate's
+``C_margin_pct`` is measured against it. Minimum load, friction torque: engine.bearings.mounted.
+
 Sign and units: N, mm, rpm, h. Nothing here writes files; the bundled table is read once.
 """
 from __future__ import annotations
