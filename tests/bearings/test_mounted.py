@@ -251,3 +251,18 @@ def test_bevel_gear_is_held_to_mesh_displacement_limits_not_the_spur_slope():
     dg = r.diagrams
     i = max(k for k, x in enumerate(dg.x_mm) if abs(x - 280) < 1e-9)
     assert rad.value == pytest.approx(dg.load_cases["run"]["u_mm"][i], rel=1e-9)
+
+
+def test_the_tables_a_mm_column_wins():
+    text = BUNDLED_PATH.read_text(encoding="utf-8").splitlines()
+    head = [i for i, ln in enumerate(text) if ln.startswith("designation,")][0]
+    a_given = {"TR-02-45": "11.5"}  # an invented pressure-centre distance for one row
+    rows = [ln + "," + a_given.get(ln.split(",")[0], "") for ln in text[head + 1:]]
+    csv = "\n".join(text[:head] + [text[head] + ",a_mm"] + rows) + "\n"
+    d = _tapered_pair("+x", "-x")
+    for s in d["supports"]:
+        s["designation"] = "TR-02-45"
+    d["bearing_table"] = {"name": "with pressure centres", "csv": csv}
+    r = engine.solve(d)
+    A, B = r.load_cases[0].supports
+    assert A.x_load_mm - A.x_mm == pytest.approx(-11.5) and B.x_load_mm - B.x_mm == pytest.approx(11.5)
