@@ -572,7 +572,7 @@ def result_digest(result: Result | None) -> dict[str, dict[str, str]]:
             for key, q in (("Fy_N", "force"), ("Fz_N", "force"), ("Fr_N", "force"), ("Fa_N", "force")):
                 out["Reactions"][f"{c.name} · {s.id} · {key}"] = units.fmt(getattr(s, key), q)
     for b in result.bearings:
-        top = b.candidates[0] if b.candidates else None
+        top = next((c for c in b.candidates if c.designation == b.designation), b.candidates[0] if b.candidates else None)
         out["Bearing lives"][f"{b.id} · bearing"] = top.designation if top else "none found"
         out["Bearing lives"][f"{b.id} · P_N"] = units.fmt(b.equivalent_load_N, "force")
         if top:

@@ -40,7 +40,7 @@ _FAMILY_TITLE = dict(FAMILIES)
 _FAMILY_ORDER = {k: i for i, (k, _) in enumerate(FAMILIES)}
 RANK = {"fail": 0, "warn": 1, "ok": 2}
 _STIFFNESS = {"shaft.bearing_slope", "shaft.gear_slope", "shaft.gear_deflection", "shaft.mesh_slope",
-              "shaft.twist"}
+              "shaft.twist", "shaft.bevel_axial", "shaft.bevel_radial"}
 _STRENGTH = {"shaft.fatigue", "shaft.yield"}
 _DYNAMICS = {"shaft.critical_speed"}
 SOURCE_CHARS = 64  # one line of the check column at 1440 px; narrower, CSS ends the line with "…"
@@ -299,7 +299,7 @@ def results_view(result: Any) -> ResultsView:
 
     gov: list[Governing] = []
     for b in result.bearings:
-        chosen = b.candidates[0] if b.candidates else None
+        chosen = next((c for c in b.candidates if c.designation == b.designation), b.candidates[0] if b.candidates else None)
         des = chosen.designation if chosen is not None else ""
         life = _first(rows, {"bearing.life"}, b.id)
         if life is not None:

@@ -107,7 +107,8 @@ SUPPORT_FIELDS = (
        empty_means="null"),
     _f("axial", "axial role", kind="select", options=tuple(AXIAL_LABELS.items())),
     _opt("contact_angle_deg", "contact angle", "angle"),
-    _opt("radial_stiffness_N_per_mm", "radial stiffness", "stiffness", hint="empty: rigid"),
+    _opt("radial_stiffness_N_per_mm", "radial stiffness", "stiffness", hint="empty: the bearing's"),
+    _opt("designation", "chosen bearing", kind="text", hint="empty: first ranked"),
 )
 _COMMON = (_f("id", "name", kind="text"),
            _f("kind", "kind", kind="select", options=tuple(KIND_LABELS.items())),

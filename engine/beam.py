@@ -286,13 +286,10 @@ NOT_HELD = "the supports do not hold the shaft: it can move as a rigid body"
 _PIVOT_MIN = 1e-13
 
 
-def _support_split(design: Design, mesh: Mesh) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """Rigid support nodes, elastic support nodes and their stiffnesses [N/mm]."""
-    rigid = [int(n) for s, n in zip(design.supports, mesh.support_nodes) if s.radial_stiffness_N_per_mm is None]
-    el = [(int(n), s.radial_stiffness_N_per_mm) for s, n in zip(design.supports, mesh.support_nodes)
-          if s.radial_stiffness_N_per_mm is not None]
-    return (np.array(rigid, np.intp), np.array([n for n, _ in el], np.intp),
-            np.array([k for _, k in el], float))
+def _support_stiffness(design: Design) -> np.ndarray:
+    """(n_supports,) radial stiffness of each support as typed [N/mm]; NaN: rigid."""
+    return np.array([np.nan if s.radial_stiffness_N_per_mm is None else s.radial_stiffness_N_per_mm
+                     for s in design.supports], float)
 
 
 def band_factor(ab: np.ndarray, off: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -328,37 +325,53 @@ def band_solve(c: np.ndarray, Z: np.ndarray) -> np.ndarray:
 
 
 def solve_bending_many(designs: Sequence[Design], meshes: Sequence[Mesh], F_nodal: Sequence[np.ndarray],
-                       q_N_per_mm3: Sequence[np.ndarray]) -> list[BeamSolution | EngineError]:
+                       q_N_per_mm3: Sequence[np.ndarray],
+                       springs: Sequence[np.ndarray | None] | None = None) -> list[BeamSolution | EngineError]:
     """Solve K·u = f of many designs, every load case and both planes, by one banded solve.
 
     Per design: ``F_nodal`` (n_cases, 2, N, 2) nodal forces and couples [N, N·mm] in each
     plane's own DOFs (x–y plane: Fy and Cz; x–z plane: Fz and −Cy); ``q_N_per_mm3`` (n_cases, 2)
     weight density [N/mm³] along y and z, applied as the consistent load of every element
-    [qL/2, qL²/12, qL/2, −qL²/12]. The designs' bands are laid end to end (:func:`chain_bands`)
-    and the right-hand sides side by side (zero columns where a design has fewer cases), so
-    all are factored and solved at once; one BeamSolution each, or an EngineError for a design
-    whose supports do not hold it.
+    [qL/2, qL²/12, qL/2, −qL²/12]; optional ``springs`` (n_cases, n_supports) radial stiffness
+    of each support in each case [N/mm] (NaN: as the design says, rigid or typed), for
+    bearings whose stiffness depends on the case's load. The designs' bands are laid end to
+    end (:func:`chain_bands`), one band per design, or one per load case of a design with
+    springs of its own per case, and the right-hand sides side by side (zero columns where a
+    block has fewer cases), so all are factored and solved at once; one BeamSolution each, or
+    an EngineError for a design whose supports do not hold it.
     """
     B = len(designs)
     if not B:
         return []
-    off, starts, owner = chain_bands(meshes)
+    springs = list(springs) if springs is not None else [None] * B
+    blocks: list[tuple[int, slice, np.ndarray]] = []  # (design, its cases, support stiffness (ns,); NaN rigid)
+    for b, d in enumerate(designs):
+        typed = _support_stiffness(d)
+        nc = F_nodal[b].shape[0]
+        if springs[b] is None:
+            blocks.append((b, slice(0, nc), typed))
+        else:
+            sp = np.asarray(springs[b], float)
+            blocks += [(b, slice(j, j + 1), np.where(np.isfinite(sp[j]), sp[j], typed)) for j in range(nc)]
+    bm = [meshes[b] for b, _, _ in blocks]
+    off, starts, owner = chain_bands(bm)
     dof_off = 2 * off
     n_dof = int(dof_off[-1])
-    ke = _element_matrices(designs, meshes, owner)
+    ke = _element_matrices([designs[b] for b, _, _ in blocks], bm, owner)
     K0 = band_assemble(ke, starts, n_dof)
-    R = 2 * max(F.shape[0] for F in F_nodal)
+    R = 2 * max(F_nodal[b][cs].shape[0] for b, cs, _ in blocks)
     rhs = np.zeros((n_dof, R))
     fes, rigid_all = [], []
     Kt = K0.copy()
-    for b, (d, m) in enumerate(zip(designs, meshes)):
-        fe, f = _load_vectors(m, F_nodal[b], q_N_per_mm3[b])
+    for k, ((b, cs, kv), m) in enumerate(zip(blocks, bm)):
+        fe, f = _load_vectors(m, F_nodal[b][cs], q_N_per_mm3[b][cs])
         fes.append(fe)
         nc = f.shape[0]
-        rhs[dof_off[b]:dof_off[b + 1], :2 * nc] = f.reshape(2 * nc, 2 * m.n_nodes).T
-        rigid, elastic, k = _support_split(d, m)
-        rigid_all.append(dof_off[b] + 2 * rigid)
-        Kt[0, dof_off[b] + 2 * elastic] += k
+        rhs[dof_off[k]:dof_off[k + 1], :2 * nc] = f.reshape(2 * nc, 2 * m.n_nodes).T
+        nodes = np.asarray(m.support_nodes, np.intp)
+        el = np.isfinite(kv)
+        rigid_all.append(dof_off[k] + 2 * nodes[~el])
+        np.add.at(Kt[0], dof_off[k] + 2 * nodes[el], kv[el])
     K0s = Kt.copy()  # with the springs, before the rigid DOFs are removed (reactions use it)
     rigid = np.concatenate(rigid_all) if rigid_all else np.zeros(0, np.intp)
     _pin(Kt, rigid)
@@ -367,25 +380,33 @@ def solve_bending_many(designs: Sequence[Design], meshes: Sequence[Mesh], F_noda
     c, bad = band_factor(Kt, dof_off)
     u = band_solve(c, rhs_free)
     reac = band_matvec(K0s, u) - rhs  # force from the supports (and springs) on the shaft at every DOF
-    out: list[BeamSolution | EngineError] = []
-    for b, (d, m) in enumerate(zip(designs, meshes)):
-        if bad[b]:
-            out.append(EngineError.at("supports", NOT_HELD))
+    parts: list[list] = [[] for _ in range(B)]
+    for k, ((b, cs, kv), m) in enumerate(zip(blocks, bm)):
+        if bad[k]:
+            parts[b].append(None)
             continue
-        nc, N = F_nodal[b].shape[0], m.n_nodes
-        ub = u[dof_off[b]:dof_off[b + 1], :2 * nc].T.reshape(nc, 2, 2 * N)
-        rb = reac[dof_off[b]:dof_off[b + 1], :2 * nc].T.reshape(nc, 2, 2 * N)
+        nc, N = F_nodal[b][cs].shape[0], m.n_nodes
+        ub = u[dof_off[k]:dof_off[k + 1], :2 * nc].T.reshape(nc, 2, 2 * N)
+        rb = reac[dof_off[k]:dof_off[k + 1], :2 * nc].T.reshape(nc, 2, 2 * N)
         Rb = rb[:, :, 2 * np.asarray(m.support_nodes, np.intp)].copy()
-        for j, s in enumerate(d.supports):  # a spring's force on the shaft: −k·u
-            if s.radial_stiffness_N_per_mm is not None:
-                Rb[:, :, j] = -s.radial_stiffness_N_per_mm * ub[:, :, 2 * int(m.support_nodes[j])]
-        e0 = np.searchsorted(owner, b)
+        for j in np.flatnonzero(np.isfinite(kv)):  # a spring's force on the shaft: −k·u
+            Rb[:, :, j] = -kv[j] * ub[:, :, 2 * int(m.support_nodes[j])]
+        e0 = np.searchsorted(owner, k)
         kb = ke[e0:e0 + N - 1]
         ue = np.stack([ub[:, :, 0:-2:2], ub[:, :, 1:-2:2], ub[:, :, 2::2], ub[:, :, 3::2]], axis=-1)
-        end = np.einsum("eij,cpej->cpei", kb, ue) - fes[b]  # k·u_e − consistent load, per element
+        end = np.einsum("eij,cpej->cpei", kb, ue) - fes[k]  # k·u_e − consistent load, per element
         V = np.stack([end[..., 0], -end[..., 2]], axis=-1)
         M = np.stack([-end[..., 1], end[..., 3]], axis=-1)
-        out.append(BeamSolution(u_mm=ub[:, :, 0::2], slope_rad=ub[:, :, 1::2], V_N=V, M_Nmm=M, R_N=Rb))
+        parts[b].append(BeamSolution(u_mm=ub[:, :, 0::2], slope_rad=ub[:, :, 1::2], V_N=V, M_Nmm=M, R_N=Rb))
+    out: list[BeamSolution | EngineError] = []
+    for ps in parts:
+        if any(p is None for p in ps):
+            out.append(EngineError.at("supports", NOT_HELD))
+        elif len(ps) == 1:
+            out.append(ps[0])
+        else:
+            out.append(BeamSolution(**{f.name: np.concatenate([getattr(p, f.name) for p in ps])
+                                       for f in fields(BeamSolution)}))
     return out
 
 

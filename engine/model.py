@@ -188,6 +188,7 @@ class Support(_Doc):
     bore_mm: Pos | None = None
     dimension_series: list[str] | None = None  # restrict candidates, e.g. ["02", "03"]
     misalignment_limit_rad: Pos | None = None  # overrides the type's default slope limit
+    designation: str | None = Field(default=None, min_length=1, max_length=80)  # the designer's chosen row of the bearing table
     # mounting (engine.mounting): the ring whose load rotates, and the designer's own fits
     inner_ring_load: Literal["rotating", "stationary"] = "rotating"
     fits: SeatFits | None = None
@@ -344,10 +345,12 @@ class Gravity(_Doc):
 
 
 class Analysis(_Doc):
-    """Solver settings: element count and whether shear deformation is included."""
+    """Solver settings: element count, whether shear deformation is included, and whether
+    supports with a bearing type get their rated bearing's radial stiffness (else rigid)."""
 
     elements: Annotated[int, Field(ge=10, le=MAX_MESH_ELEMENTS)] = 120
     shear_deformation: bool = True
+    bearing_stiffness: bool = True
 
 
 class BearingTable(_Doc):
@@ -464,6 +467,9 @@ def _semantic(d: Design) -> list[Issue]:
         if key in xs:
             add(f"supports[{i}].x_mm", f"supports {d.supports[xs[key]].id} and {s.id} are both at x = {s.x_mm:g} mm")
         xs.setdefault(key, i)
+        if s.bearing_type is None and s.designation is not None:
+            add(f"supports[{i}].designation", f"{s.id} is a plain support without a bearing: choose a bearing "
+                                              "type before a bearing, or clear the bearing")
         if s.bearing_type is None and s.axial not in ("both", "none"):
             add(f"supports[{i}].axial", "a plain support without a bearing can only be 'both' or 'none'")
     locating = [i for i, s in enumerate(d.supports) if s.axial == "both"]

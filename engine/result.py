@@ -46,6 +46,8 @@ class SupportReaction(_Out):
     Fz_N: float
     Fr_N: float
     Fa_N: float
+    x_load_mm: float | None = None  # where the reaction acts: a pressure centre, else x_mm
+    stiffness_N_per_mm: float | None = None  # radial stiffness in this case's deflections (None: rigid)
 
 
 class CaseResult(_Out):
@@ -72,7 +74,9 @@ class Candidate(_Out):
     s0: float
     limiting_speed_rpm: float | None = None
     ok: bool
-    reasons: list[str] = []
+    reasons: list[str] = []  # why it fails (empty when ok)
+    warnings: list[str] = []  # what to watch that does not fail it (a load below the minimum load)
+    C_margin_pct: float | None = None  # (C / the support's required_C_N − 1)·100
 
 
 class SeriesMinimum(_Out):
@@ -108,6 +112,14 @@ class BearingResult(_Out):
     smallest_by_series: list[SeriesMinimum] = []
     notes: list[str] = []
     fits: BearingFits | None = None
+    designation: str = ""  # the bearing the support's checks rate
+    chosen_by: Literal["designer", "ranking", ""] = ""
+    required_C_aiso_N: float | None = None  # with the rated bearing's typical aISO (lubrication given)
+    min_load_ratio: list[float] = []  # P/C per case (application factor not applied)
+    friction_torque_Nm: list[float] = []  # per case, Palmgren
+    power_loss_W: list[float] = []  # per case
+    x_load_mm: float | None = None  # pressure centre (where the reaction acts)
+    modal_stiffness_N_per_mm: float | None = None  # radial stiffness in the natural frequencies
 
 
 class ShaftSection(_Out):

@@ -21,6 +21,9 @@ import engine
 from engine.checks import shaft_checks, sort_checks
 from engine.bearings import BearingOutcome, Catalogue, parse_catalogue, rate_bearings_many
 from engine.beam import BeamSolution, Mesh, axial_and_torque, build_meshes, solve_bending_many
+from engine.bearings.mounted import (SOURCE_PRESSURE_CENTRE, SOURCE_STIFFNESS, axial_deflection_mm,
+                                     pressure_centre_offset_mm, radial_stiffness, row_geometry)
+from engine.stiffness import bevel_mesh_checks
 from engine.dynamics import dynamics_elements, lateral_frequencies_many
 from engine.loads import CaseLoads, case_loads
 from engine.mounting import mounting, place_checks
@@ -41,6 +44,10 @@ class Analysis:
         self.design, self.mesh, self.loads, self.beam = design, mesh, loads, beam
         self.Fr_N, self.Fa_ext_N, self.N_N, self.T_Nmm = Fr_N, Fa_ext_N, N_N, T_Nmm
         self.modes = None
+        self.dyn_mesh: Mesh | None = None
+        self.x_load_mm: list[float] = [s.x_mm for s in design.supports]
+        self.springs: np.ndarray | None = None  # (n_cases, n_supports) secant stiffness used; NaN rigid/typed
+        self.modal_k: dict[int, float] = {}
 
 
 def _weight_density(design: Design, loads: list[CaseLoads]) -> np.ndarray:
@@ -63,10 +70,13 @@ def _nodal_forces(mesh: Mesh, loads: list[CaseLoads]) -> np.ndarray:
     return F
 
 
-def analyse_many(designs: Sequence[Design], *, modes: bool = True) -> list[Analysis | DesignError | EngineError]:
+def analyse_many(designs: Sequence[Design], *, modes: bool = True,
+                 springs: Sequence[np.ndarray | None] | None = None) -> list[Analysis | DesignError | EngineError]:
     """Loads, meshes (built once per design), the bending solve of every design in one banded
     solve and, with ``modes``, their lateral modes in one banded eigen-solve; axial forces
-    still unresolved. An error in place of a design that cannot be analysed."""
+    still unresolved. ``springs``: per design None or (n_cases, n_supports) support stiffness
+    per case [N/mm] (NaN: as the design says), see :func:`engine.beam.solve_bending_many`.
+    An error in place of a design that cannot be analysed."""
     out: list[Any] = [None] * len(designs)
     ok, meshes, dmeshes, loads = [], [], [], []
     for k, d in enumerate(designs):
@@ -79,8 +89,9 @@ def analyse_many(designs: Sequence[Design], *, modes: bool = True) -> list[Analy
         ok.append(k), meshes.append(m), dmeshes.append(dm), loads.append(ls)
     ds = [designs[k] for k in ok]
     ws = [_weight_density(d, ls) for d, ls in zip(ds, loads)]
+    sp = None if springs is None else [springs[k] for k in ok]
     beams = solve_bending_many(ds, meshes, [_nodal_forces(m, ls) for m, ls in zip(meshes, loads)],
-                               [w[:, 1:] for w in ws])
+                               [w[:, 1:] for w in ws], sp)
     held = [i for i, b in enumerate(beams) if not isinstance(b, EngineError)]
     lateral = lateral_frequencies_many([ds[i] for i in held], meshes=[dmeshes[i] for i in held]) if modes else []
     lat = dict(zip(held, lateral))
@@ -93,6 +104,7 @@ def analyse_many(designs: Sequence[Design], *, modes: bool = True) -> list[Analy
         Fa_ext = np.array([cl.F_N[:, 0].sum() for cl in ls]).reshape(-1) + w[:, 0] * volume
         a = Analysis(d, m, ls, beam, Fr, Fa_ext, np.empty(0), np.empty(0))
         a.modes = lat.get(i)
+        a.dyn_mesh = dmeshes[i]
         out[k] = a
     return out
 
@@ -276,16 +288,176 @@ def _rate_all(analyses: Sequence[Analysis], catalogue: Catalogue | None) -> list
     return out
 
 
-def _finish(a: Analysis, rated: BearingOutcome, diagrams: bool) -> Result:
+# Bearings as mounted: the beam carries each rated bearing at its pressure centre and on its
+# radial stiffness, which depend on the rated bearing and its load; solve, rate, mount, again,
+# until the rated bearings stay the same and the stiffnesses change by less than _SETTLED.
+_PASSES = 4
+_SETTLED = 1e-3
+
+
+def _mount(design: Design, rated: BearingOutcome, Fr: np.ndarray) -> tuple[Design, np.ndarray | None, list[float], dict[int, float]]:
+    """The design as the beam sees it with its rated bearings mounted: supports at their
+    pressure centres, the modal (tangent) stiffness typed in for the natural frequencies; the
+    secant stiffness of each support per case (n_cases, n_supports; NaN rigid or typed) or
+    None; the reactions' x; the modal stiffness per support index."""
+    cat = rated.catalogue
+    L = design.shaft.length_mm
+    stiff = design.analysis.bearing_stiffness
+    x_load = [s.x_mm for s in design.supports]
+    springs = np.full((len(design.load_cases), len(design.supports)), np.nan)
+    modal: dict[int, float] = {}
+    sups = list(design.supports)
+    for i, row in rated.rated.items():
+        s = design.supports[i]
+        x_load[i] = float(np.clip(s.x_mm + pressure_centre_offset_mm(cat, row, s.axial, s.bearing_type), 0.0, L))
+        upd: dict[str, Any] = {"x_mm": x_load[i]}
+        if stiff and s.radial_stiffness_N_per_mm is None:
+            k_sec, k_tan = radial_stiffness(cat, row, s.bearing_type, Fr[:, i], C_N=rated.rated_C_N[i],
+                                            paired=rated.paired.get(i, False))
+            springs[:, i] = k_sec
+            modal[i] = float(np.min(k_tan))  # the softest case: the lowest critical speed
+            upd["radial_stiffness_N_per_mm"] = modal[i]
+        sups[i] = s.model_copy(update=upd)
+    if not modal and x_load == [s.x_mm for s in design.supports]:
+        return design, None, x_load, {}
+    eff = design.model_copy(update={"supports": sups})
+    return eff, (springs if modal else None), x_load, modal
+
+
+def _mounted_passes(good: list[tuple[int, Analysis]], rated: list, catalogue: Catalogue | None) -> dict[int, int]:
+    """Solve again with the rated bearings mounted (:func:`_mount`) until they settle, at most
+    ``_PASSES`` beam solves in all, every pending design of a pass in one batch. Updates
+    ``good`` and ``rated`` in place; returns the beam solves each mounted design took (a
+    negative count: it had not settled)."""
+    passes: dict[int, int] = {}
+    pending = [n for n, (_, a) in enumerate(good) if not isinstance(rated[n], Exception)]
+    prev: dict[int, tuple] = {}
+    for p in range(1, _PASSES + 1):
+        mounts = {}
+        for n in pending:
+            a, r = good[n][1], rated[n]
+            eff, springs, x_load, modal = _mount(a.design, r, a.Fr_N)
+            key = (tuple(sorted(r.rated.items())), tuple(x_load))
+            if n in prev:
+                old_key, old_springs = prev[n]
+                same_k = (springs is None and old_springs is None) or (
+                    springs is not None and old_springs is not None
+                    and np.nanmax(np.abs(springs - old_springs) / np.where(np.isfinite(old_springs), old_springs, 1.0),
+                                  initial=0.0) < _SETTLED)
+                if key == old_key and same_k:
+                    passes[n] = p
+                    continue
+            if eff is a.design and n not in prev:
+                continue  # nothing to mount: rigid supports at their x, as solved
+            if p == _PASSES:
+                passes[n] = -p
+                continue
+            prev[n] = (key, springs)
+            mounts[n] = (eff, springs, x_load, modal)
+        pending = list(mounts)
+        if not pending:
+            break
+        new = analyse_many([mounts[n][0] for n in pending], modes=False, springs=[mounts[n][1] for n in pending])
+        fresh = []
+        for n, a in zip(pending, new):
+            if isinstance(a, Exception):
+                rated[n] = a
+                continue
+            orig = good[n][1].design
+            a.eff_design, a.design = a.design, orig
+            a.x_load_mm, a.springs, a.modal_k = mounts[n][2], mounts[n][1], mounts[n][3]
+            good[n] = (good[n][0], a)
+            fresh.append(n)
+        for n, r in zip(fresh, _rate_all([good[n][1] for n in fresh], catalogue)):
+            rated[n] = r
+        pending = [n for n in fresh if not isinstance(rated[n], Exception)]
+    return passes
+
+
+def _modes(analyses: Sequence[Analysis]) -> None:
+    """The lateral modes of every analysed design in one banded eigen-solve, each on the
+    supports as mounted (pressure centres, the modal bearing stiffness)."""
+    ds = [getattr(a, "eff_design", a.design) for a in analyses]
+    for a, m in zip(analyses, lateral_frequencies_many(ds, meshes=[a.dyn_mesh for a in analyses])):
+        a.modes = m
+
+
+def _mount_notes(a: Analysis, rated: BearingOutcome, passes: int | None) -> list:
+    """The bearing results with where each rated bearing carries the shaft, its stiffness and
+    how the passes settled."""
+    design, out = a.design, []
+    idx = {s.id: i for i, s in enumerate(design.supports)}
+    for br in rated.bearings:
+        i = idx[br.id]
+        if i not in rated.rated:
+            out.append(br)
+            continue
+        s = design.supports[i]
+        notes = list(br.notes)
+        if abs(a.x_load_mm[i] - s.x_mm) > 1e-9:
+            notes.append(f"reaction at the pressure centre x = {a.x_load_mm[i]:.4g} mm "
+                         f"({a.x_load_mm[i] - s.x_mm:+.3g} mm from the bearing's middle; {SOURCE_PRESSURE_CENTRE})")
+        k = a.modal_k.get(i)
+        if k is not None and a.springs is not None:
+            notes.append(f"radial stiffness of {br.designation}: {', '.join(f'{v:,.0f}' for v in a.springs[:, i])} "
+                         f"N/mm per case in the deflections (secant at the case's load), {k:,.0f} N/mm in the "
+                         f"natural frequencies (tangent, softest case); {SOURCE_STIFFNESS}")
+        elif s.radial_stiffness_N_per_mm is not None:
+            notes.append(f"radial stiffness {s.radial_stiffness_N_per_mm:,.0f} N/mm as typed")
+        elif not design.analysis.bearing_stiffness:
+            notes.append("rigid support (analysis.bearing_stiffness is off)")
+        if passes is not None:
+            notes.append(f"pressure centres and stiffness from the rated bearings: settled after {passes} solves"
+                         if passes > 0 else
+                         f"pressure centres and stiffness from the rated bearings did not settle in {-passes} "
+                         "solves; the last is shown (the choice may flip between two bearings)")
+        out.append(br.model_copy(update={"notes": notes, "x_load_mm": a.x_load_mm[i],
+                                         "modal_stiffness_N_per_mm": k}))
+    return out
+
+
+def _stiffness(a: Analysis, s, j: int, i: int) -> float | None:
+    """The radial stiffness support i had in load case j's deflections (None: rigid)."""
+    if a.springs is not None and np.isfinite(a.springs[j, i]):
+        return float(a.springs[j, i])
+    return s.radial_stiffness_N_per_mm
+
+
+def _bevel_checks(a: Analysis, rated: BearingOutcome, Fa: np.ndarray) -> list:
+    """Bevel gears' displacement along and across the axis (engine.stiffness.bevel_mesh_checks):
+    the axial path runs from the support carrying the most axial load in each case, through
+    that bearing's own axial deflection where it has a contact angle."""
+    design = a.design
+    if not any(e.kind == "bevel_gear" for e in design.elements):
+        return []
+    nc = len(design.load_cases)
+    carrier = np.argmax(Fa, axis=1) if Fa.size else np.zeros(nc, int)
+    x_ax = np.array([a.x_load_mm[int(i)] for i in carrier], float)
+    dax = np.zeros(nc)
+    for j, i in enumerate(carrier):
+        i = int(i)
+        if i in rated.rated and rated.catalogue is not None:
+            g = row_geometry(rated.catalogue, rated.rated[i], design.supports[i].bearing_type)
+            dax[j] = float(axial_deflection_mm(g, design.supports[i].bearing_type, Fa[j, i],
+                                               paired=rated.paired.get(i, False)))
+    EA = design.shaft.material.E_GPa * 1e3 * a.mesh.A_mm2
+    return bevel_mesh_checks(design, u_mm=a.beam.u_mm, element_nodes=a.mesh.element_nodes, x_mm=a.mesh.x_mm,
+                             N_N=a.N_N, EA_N=EA, x_axial_mm=x_ax, bearing_axial_mm=dax)
+
+
+def _finish(a: Analysis, rated: BearingOutcome, diagrams: bool, passes: int | None = None) -> Result:
     """Axial force and torque, shaft checks, backstop and the Result of one analysed design
     whose bearings are rated."""
     design = a.design
+    rated = BearingOutcome(split=rated.split, bearings=_mount_notes(a, rated, passes), checks=rated.checks,
+                           warnings=rated.warnings, rated=rated.rated, paired=rated.paired,
+                           rated_C_N=rated.rated_C_N, catalogue=rated.catalogue)
     Fa, Fx = rated.split.Fa_N, rated.split.Fx_N
     carry_axial(a, Fx)
     _check_arrays(a, Fa, Fx)
     sc = shaft_checks(a)
     mt = mounting(a, rated.bearings)  # keys, press fits, seats, fits, twist (engine.mounting)
-    checks = sort_checks(place_checks(design, rated.checks + sc.checks + mt.checks))
+    checks = sort_checks(place_checks(design, rated.checks + sc.checks + _bevel_checks(a, rated, Fa) + mt.checks))
     _check_objects(design, mt.bearings, sc, checks)
     u_res = np.hypot(a.beam.u_mm[:, 0], a.beam.u_mm[:, 1])  # (nc, N)
     kmax = np.argmax(u_res, axis=1)
@@ -300,7 +472,8 @@ def _finish(a: Analysis, rated: BearingOutcome, diagrams: bool) -> Result:
                                     My_Nm=cl.C_Nmm[i, 1] / 1e3, Mz_Nm=cl.C_Nmm[i, 2] / 1e3,
                                     torque_Nm=cl.C_Nmm[i, 0] / 1e3) for i in range(len(cl.ids))],
             supports=[SupportReaction(id=s.id, x_mm=s.x_mm, Fx_N=Fx[j, i], Fy_N=R[j, 0, i],
-                                      Fz_N=R[j, 1, i], Fr_N=a.Fr_N[j, i], Fa_N=Fa[j, i])
+                                      Fz_N=R[j, 1, i], Fr_N=a.Fr_N[j, i], Fa_N=Fa[j, i], x_load_mm=a.x_load_mm[i],
+                                      stiffness_N_per_mm=_stiffness(a, s, j, i))
                       for i, s in enumerate(design.supports)],
             max_deflection_mm=float(u_res[j, k]), max_deflection_x_mm=float(a.mesh.x_mm[k]),
         ))
@@ -335,17 +508,20 @@ def solve_many(designs: Sequence[Any], *, diagrams: bool = True,
             parsed.append((k, parse_design(data)))
         except DesignError as exc:
             out[k] = exc
-    analyses = analyse_many([d for _, d in parsed])
+    analyses = analyse_many([d for _, d in parsed], modes=False)
     good = [(k, a) for (k, _), a in zip(parsed, analyses) if not isinstance(a, Exception)]
     for (k, _), a in zip(parsed, analyses):
         if isinstance(a, Exception):
             out[k] = a
-    for (k, a), rated in zip(good, _rate_all([a for _, a in good], catalogue)):
+    rated_all = _rate_all([a for _, a in good], catalogue)
+    passes = _mounted_passes(good, rated_all, catalogue)
+    _modes([a for (_, a), r in zip(good, rated_all) if not isinstance(r, Exception)])
+    for n, ((k, a), rated) in enumerate(zip(good, rated_all)):
         if isinstance(rated, Exception):
             out[k] = rated
             continue
         try:
-            out[k] = _finish(a, rated, diagrams)
+            out[k] = _finish(a, rated, diagrams, passes.get(n))
         except (DesignError, EngineError) as exc:
             out[k] = exc
     return out

@@ -30,8 +30,8 @@ import numpy as np
 from engine.model import Design
 from engine.result import Check
 
-__all__ = ["SLOPE_LIMITS", "GEAR_LIMITS", "slope_limit", "bearing_slope_checks", "gear_checks",
-           "GEAR_KINDS"]
+__all__ = ["SLOPE_LIMITS", "GEAR_LIMITS", "BEVEL_LIMITS", "slope_limit", "bearing_slope_checks", "gear_checks",
+           "bevel_mesh_checks", "GEAR_KINDS"]
 
 _T72 = "Shigley, Mechanical Engineering Design, 9th ed., Table 7-2 (memory)"
 SLOPE_LIMITS: dict[str, tuple[float, float, str]] = {
@@ -51,7 +51,17 @@ GEAR_LIMITS = {
                             "(0.25 mm coarser, 0.08 mm finer pitch) (memory)"),
     "slope_rad": (0.0005, "Shigley 9th ed. Table 7-2: uncrowned spur gears (memory)"),
 }
-GEAR_KINDS = ("gear", "bevel_gear")
+GEAR_KINDS = ("gear",)  # held to the spur limits; bevel gears: bevel_mesh_checks
+# A bevel pair's contact pattern moves when either member shifts along or across its axis; the
+# trade's guidance for mounting under load is a few hundredths of a millimetre each way for
+# medium-size gears (common practice, from memory; tighter for fine pitch, looser for large
+# gears: take the gear maker's figure when known)
+BEVEL_LIMITS = {
+    "axial_mm": (0.075, "common practice (from memory): bevel gear displacement along its axis under load "
+                        "about 0.075 mm at most for medium-size gears"),
+    "radial_mm": (0.075, "common practice (from memory): bevel gear displacement across its axis under load "
+                         "about 0.075 mm at most for medium-size gears"),
+}
 
 
 def slope_limit(support) -> tuple[float, float, str] | None:
@@ -151,4 +161,45 @@ def gear_checks(design: Design, *, u_mm: np.ndarray, slope_rad: np.ndarray,
                                      f"{'is within' if ok else 'exceeds'} {req.gear_slope_max_rad:g} rad",
                              value=v, limit=req.gear_slope_max_rad, unit="rad", source=ssrc,
                              where=e.id, load_case=design.load_cases[j].name))
+    return out
+
+
+def bevel_mesh_checks(design: Design, *, u_mm: np.ndarray, element_nodes: np.ndarray, x_mm: np.ndarray,
+                      N_N: np.ndarray, EA_N: np.ndarray, x_axial_mm: np.ndarray,
+                      bearing_axial_mm: np.ndarray) -> list[Check]:
+    """Displacement of every bevel gear along and across the shaft axis (governing load case
+    each) against :data:`BEVEL_LIMITS`, instead of the spur gear's slope and deflection limits.
+
+    Across: the resultant transverse deflection √(uy² + uz²) at the gear. Along: the shaft's
+    axial stretch between the support that carries the axial load in that case (``x_axial_mm``,
+    (n_cases,)) and the gear, Σ N·Δx/(E·A) over the elements between them (``N_N`` (n_cases,
+    n_el), ``EA_N`` (n_el,), nodes ``x_mm``), plus that bearing's own axial deflection
+    (``bearing_axial_mm`` (n_cases,), Palmgren, see engine.bearings.mounted).
+    """
+    idx = [i for i, e in enumerate(design.elements) if e.kind == "bevel_gear"]
+    if not idx:
+        return []
+    nodes = np.asarray(element_nodes)
+    u = _resultant_at(u_mm, nodes[idx])
+    mid = 0.5 * (x_mm[:-1] + x_mm[1:])
+    strain = N_N / EA_N[None, :] * np.diff(x_mm)[None, :]  # (nc, n_el) elongation of each element
+    out: list[Check] = []
+    for k, i in enumerate(idx):
+        e = design.elements[i]
+        xg = float(e.x_mm)
+        lo, hi = np.minimum(x_axial_mm, xg), np.maximum(x_axial_mm, xg)
+        between = (mid[None, :] > lo[:, None]) & (mid[None, :] < hi[:, None])
+        axial = np.abs(np.sum(np.where(between, strain, 0.0), axis=1)) + np.abs(bearing_axial_mm)
+        for code, word, arr, (limit, src) in (
+                ("shaft.bevel_axial", "along the axis", axial, BEVEL_LIMITS["axial_mm"]),
+                ("shaft.bevel_radial", "across the axis", u[:, k], BEVEL_LIMITS["radial_mm"])):
+            j = int(np.argmax(arr))
+            v = float(arr[j])
+            ok = v <= limit
+            out.append(Check(code=code, status="ok" if ok else "fail",
+                             message=f"bevel gear {e.id} moves {v:.3g} mm {word} under load, "
+                                     f"{'within' if ok else 'beyond'} the {limit:g} mm a bevel mesh's contact "
+                                     "pattern tolerates",
+                             value=v, limit=limit, unit="mm", source=src, where=e.id,
+                             load_case=design.load_cases[j].name))
     return out

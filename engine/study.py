@@ -142,6 +142,8 @@ def arrangement_design(data: dict, key: str) -> dict:
     i, j = _ends(data)
     for k, s in enumerate(sups):
         if k in (i, j):
+            if (arr.left if k == i else arr.right)[0] != s.get("bearing_type"):
+                s.pop("designation", None)  # the designer's bearing was of another type
             s["bearing_type"], s["axial"] = arr.left if k == i else arr.right
             if s["bearing_type"] != "angular_contact_ball":
                 s.pop("contact_angle_deg", None)
@@ -436,6 +438,8 @@ def _set(data: dict, var: Variable, value: Any) -> dict:
         for it in items:
             if it.get("id") == ident:
                 it[key] = value
+                if kind == "supports" and key in ("bearing_type", "bore_mm", "contact_angle_deg"):
+                    it.pop("designation", None)  # the designer's bearing belonged to the old seat or type
         out[kind] = items
         return out
     m = _RX_SEG.match(p)
@@ -535,8 +539,8 @@ def figures_of(design: Design, result: Result, *, held: dict[str, str] | None = 
         want = held.get(br.id)
         pick = next((c for c in cands if c.designation == want), None) if want else None
         reselected = bool(want) and pick is None
-        if pick is None and cands:
-            pick = cands[0]
+        if pick is None and cands:  # the bearing the support's checks rate (the designer's, else the first ranked)
+            pick = next((c for c in cands if c.designation == br.designation), cands[0])
         slope, limit = slopes.get(br.id, (None, None))
         if pick is None:
             all_ok = False
@@ -569,7 +573,7 @@ def figures_of(design: Design, result: Result, *, held: dict[str, str] | None = 
 
 
 def _held(result: Result) -> dict[str, str]:
-    return {b.id: b.candidates[0].designation for b in result.bearings if b.candidates}
+    return {b.id: b.designation or b.candidates[0].designation for b in result.bearings if b.candidates}
 
 
 def _message(exc: DesignError) -> str:
@@ -701,12 +705,15 @@ class ArrangementOption(_Frozen):
     total_B_mm: float | None = None
     volume_cm3: float | None = None  # Σ π/4·(D² − d²)·B of the picked bearings
     failing: list[str] = []
+    deciding: list[str] = []  # the failures this arrangement decides (not shared by every arrangement)
+    light: list[str] = []  # bearings below their minimum load (support ids)
 
 
 class ArrangementComparison(_Frozen):
     supports: tuple[str, str]
     options: list[ArrangementOption]
     elapsed_s: float = 0.0
+    common_failing: list[str] = []  # shaft checks that fail alike for every arrangement: they rank none
 
 
 def _option(key: str, label: str, d: Design | None, res: Any, *, current: bool,
@@ -723,7 +730,7 @@ def _option(key: str, label: str, d: Design | None, res: Any, *, current: bool,
         sup = d.support(br.id)
         f = by_id.get(br.id)
         top = br.candidates[:n_candidates]
-        c0 = top[0] if top else None
+        c0 = next((c for c in br.candidates if c.designation == br.designation), top[0] if top else None)
         fa = max((cr.supports[i].Fa_N for cr in res.load_cases for i, s in enumerate(d.supports)
                   if s.id == br.id), default=0.0)
         if c0 is not None:
@@ -742,11 +749,13 @@ def _option(key: str, label: str, d: Design | None, res: Any, *, current: bool,
     slope_ok = all(b.slope_limit_rad is None or b.slope_rad is None or b.slope_rad <= b.slope_limit_rad
                    for b in bears)
     lives = [b.life_h for b in bears if b.life_h is not None]
+    failing = list(fig.failing)
+    light = sorted({c.where for c in res.checks if c.code == "bearing.min_load" and c.status == "warn"})
     return ArrangementOption(
         key=key, label=label, current=current, ok=bool(fig.ok) and slope_ok and bool(bears),
         bearings=bears, min_life_h=min(lives) if lives else None, min_s0=min(s0s) if s0s else None,
         max_D_mm=max(Ds) if Ds else None, total_B_mm=sum(Bs) if Bs else None,
-        volume_cm3=vol if Ds else None, failing=fig.failing)
+        volume_cm3=vol if Ds else None, failing=sorted(dict.fromkeys(failing)), light=light)
 
 
 def compare_arrangements(design: Any, *, keys: Iterable[str] | None = None,
@@ -786,11 +795,27 @@ def compare_arrangements(design: Any, *, keys: Iterable[str] | None = None,
     results = [next(it) if d is not None else r for d, r in zip(designs, results)]
     opts = [_option(k, arrangement_label(data, k), d, r, current=(k == cur), n_candidates=n_candidates)
             for k, d, r in zip(keys, designs, results)]
-    order = sorted(range(len(opts)), key=lambda i: (
-        opts[i].error is not None, not opts[i].ok,
-        opts[i].volume_cm3 if opts[i].volume_cm3 is not None else math.inf,
-        -(opts[i].min_life_h or 0.0)))
+    # a shaft check that fails alike for every arrangement is not decided by the arrangement:
+    # it does not rank them (the comparison says which)
+    solved = [o for o in opts if o.error is None]
+    code = lambda f: f.split(" (", 1)[0]  # noqa: E731  (where it fails moves with the bearings)
+    common = sorted(set.intersection(*[{code(f) for f in o.failing if not f.startswith("bearing.")} for o in solved])) \
+        if len(solved) > 1 else []
+    opts = [o.model_copy(update={"deciding": [f for f in o.failing if code(f) not in common]}) for o in opts]
+    order = sorted(range(len(opts)), key=lambda i: _rank_key(opts[i]))
     ranked = [opts[i].model_copy(update={"rank": r + 1}) for r, i in enumerate(order)]
     i, j = _ends(data)
     return ArrangementComparison(supports=(data["supports"][i]["id"], data["supports"][j]["id"]),
-                                 options=ranked, elapsed_s=time.perf_counter() - t0)
+                                 options=ranked, elapsed_s=time.perf_counter() - t0, common_failing=common)
+
+
+def _rank_key(o: ArrangementOption) -> tuple:
+    """What the arrangement decides, in order: solved; its own failures (bearing life, static
+    safety, speed, seat, slopes at the bearings, shaft checks not failing alike for all) fewest
+    first; then bearings below their minimum load fewest first; then, among those that pass,
+    the smallest space, else the longest smallest life."""
+    passes = o.error is None and bool(o.bearings) and not o.deciding
+    space = o.volume_cm3 if o.volume_cm3 is not None else math.inf
+    life = -(o.min_life_h or 0.0)
+    return (o.error is not None, not passes, len(o.deciding), len(o.light),
+            *((space, life) if passes else (life, space)))

@@ -23,6 +23,13 @@ the median factor of the rows that fit each seat; the split is then recomputed w
 top-ranked rows and those supports screened again (one refinement pass). The reported split
 is that of the top-ranked rows.
 
+The rated bearing of a support (the one its checks, notes and result rate) is the designer's
+``supports[].designation`` when given (:func:`check_designations` refuses one that is not a
+row of the table, of another type, or of another bore, at that key), else the first ranked
+candidate; ``required_C_N`` is the rating that gives the required life at the stated
+reliability with aISO = 1 under that bearing's duty-cycle equivalent load, and each candidate's
+``C_margin_pct`` is measured against it. Minimum load, friction torque: engine.bearings.mounted.
+
 Sign and units: N, mm, rpm, h. Nothing here writes files; the bundled table is read once.
 """
 from __future__ import annotations
@@ -42,7 +49,9 @@ from engine.bearings.life import (SOURCE_A1, SOURCE_AISO, SOURCE_L10, SOURCE_MIN
                                   SOURCE_WEIBULL, WEIBULL_B, WEIBULL_THETA, WEIBULL_X0, a1_iso,
                                   weibull_factor)
 from engine.bearings.lubrication import SOURCE_NU1, SOURCE_VISCOSITY, viscosity_at
-from engine.model import Design, EngineError
+from engine.bearings.mounted import (SOURCE_FRICTION, SOURCE_MIN_LOAD, contact_tan, friction_torque_Nmm,
+                                     minimum_load_ratio)
+from engine.model import Design, DesignError, EngineError, Issue
 from engine.result import BearingResult, Candidate, Check, SeriesMinimum
 
 __all__ = ["BearingOutcome", "AxialSplit", "Catalogue", "rate_bearings", "rate_bearings_many", "resolve_axial",
@@ -64,6 +73,12 @@ class BearingOutcome:
     bearings: list[BearingResult] = field(default_factory=list)
     checks: list[Check] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
+    # the rated bearing of each support (support index -> catalogue row), for the mounted
+    # bearing's pressure centre and stiffness (engine.bearings.mounted); paired: a matched unit
+    rated: dict[int, int] = field(default_factory=dict)
+    paired: dict[int, bool] = field(default_factory=dict)
+    rated_C_N: dict[int, float] = field(default_factory=dict)
+    catalogue: Catalogue | None = None
 
 
 def _fmt(v: float) -> str:
@@ -95,6 +110,15 @@ class _Support:
         self.rows = rows
         self.fit = np.abs(cat.d_mm[rows] - self.bore) < 0.01  # positions into rows
         self.paired = s.axial == "both" and self.kind in INDUCED_TYPES
+        hit = np.flatnonzero(cat.designation[rows] == s.designation) if s.designation else np.zeros(0, int)
+        self.chosen = int(rows[hit[0]]) if hit.size else None  # catalogue row the designer chose
+
+    def rated_pos(self, sc: Screen, order: np.ndarray) -> int | None:
+        """Screened position of the bearing the checks rate: the designer's row, else the
+        first ranked."""
+        if self.chosen is not None:
+            return int(np.flatnonzero(sc.idx == self.chosen)[0])
+        return int(order[0]) if order.size else None
 
     def row_ratio(self, cat: Catalogue, rows: np.ndarray) -> np.ndarray:
         """S/Fr of catalogue rows for this support's type."""
@@ -183,11 +207,41 @@ def _life_method(design: Design) -> _Life:
     return _Life(a_R, a_other, method, other, src_life, nu, ec, tuple(warnings))
 
 
+def check_designations(design: Design, cat: Catalogue) -> None:
+    """DesignError at ``supports[i].designation`` for a chosen bearing that is not a row of
+    the table in use, is of another type or series, or whose bore does not fit the seat."""
+    bad: list[Issue] = []
+    for i, s in enumerate(design.supports):
+        if not s.designation or s.bearing_type is None:
+            continue
+        hit = np.flatnonzero(cat.designation == s.designation)
+        path = f"supports[{i}].designation"
+        if not hit.size:
+            bad.append(Issue(path=path, message=f"{s.id}: bearing '{s.designation}' is not in {cat.name}; "
+                                                "choose one of the listed candidates or clear the choice"))
+            continue
+        r = int(hit[0])
+        sp = _Support(design, i, cat)
+        word = _TYPE_WORDS[s.bearing_type]
+        if cat.bearing_type[r] != s.bearing_type:
+            bad.append(Issue(path=path, message=f"{s.id}: '{s.designation}' is a "
+                                                f"{_TYPE_WORDS.get(str(cat.bearing_type[r]), cat.bearing_type[r])} "
+                                                f"bearing, not {word}"))
+        elif abs(float(cat.d_mm[r]) - sp.bore) >= 0.01:
+            bad.append(Issue(path=path, message=f"{s.id}: '{s.designation}' has bore {cat.d_mm[r]:g} mm; the "
+                                                f"seat is {sp.bore:g} mm"))
+        elif sp.chosen is None:
+            bad.append(Issue(path=path, message=f"{s.id}: '{s.designation}' is outside the dimension series or "
+                                                "contact angle this support asks for"))
+    if bad:
+        raise DesignError(bad)
+
+
 def _layout_key(design: Design, cat: Catalogue) -> tuple:
     """Designs with equal keys have the same supports' rows, seats and roles, the same load
     case speeds and shares and the same requirements: their bearings are screened together."""
     return (id(cat), design.requirements.model_dump_json(),
-            tuple((s.bearing_type, s.axial, tuple(s.dimension_series or ()), s.contact_angle_deg,
+            tuple((s.bearing_type, s.axial, tuple(s.dimension_series or ()), s.contact_angle_deg, s.designation,
                    s.bore_mm if s.bore_mm is not None else design.shaft.diameter_at(s.x_mm))
                   for s in design.supports),
             tuple((c.speed_rpm, c.time_fraction) for c in design.load_cases))
@@ -232,7 +286,7 @@ def _refine_pair(design: Design, sups: dict[int, _Support], cat: Catalogue, life
         return split
     ratio1 = ratio0.copy()
     for i in members:
-        top = sups[i].rows[orders[i][0]]
+        top = int(screens[i].idx[sups[i].rated_pos(screens[i], orders[i])])
         ratio1[i] = float(sups[i].row_ratio(cat, np.array([top]))[0])
     split = resolve_axial(design, Fr, Ka, induced_ratios=ratio1)
     for i in members:
@@ -241,9 +295,18 @@ def _refine_pair(design: Design, sups: dict[int, _Support], cat: Catalogue, life
     return split
 
 
-def _candidates(cat: Catalogue, sp: _Support, sc: Screen, order: np.ndarray, req) -> list[Candidate]:
-    """Step 5: the ranked candidates of one support with the reasons a row fails."""
+def _load_ratio(sc: Screen, pos: int, af: float) -> np.ndarray:
+    """P/C per case of a screened row, the application factor taken out (the load it carries)."""
+    return sc.P_N[pos] / af / sc.C_N[pos]
+
+
+def _candidates(cat: Catalogue, sp: _Support, sc: Screen, order: np.ndarray, req, cases,
+                required_C: float) -> list[Candidate]:
+    """Step 5: the ranked candidates of one support with the reasons a row fails (and a
+    light-load warning, which does not fail it), each with its margin on the required rating."""
     out: list[Candidate] = []
+    lim = minimum_load_ratio(sp.kind)
+    af = float(req.application_factor)
     for pos in order:
         r = sc.idx[pos]
         reasons = []
@@ -253,6 +316,12 @@ def _candidates(cat: Catalogue, sp: _Support, sc: Screen, order: np.ndarray, req
             reasons.append(f"static safety s0 {sc.s0[pos]:.3g} < {req.s0_min:g}")
         if not sc.speed_ok[pos]:
             reasons.append(f"speed {_fmt(sc.n_max_rpm)} rpm > limiting {_fmt(sc.limiting_speed_rpm[pos])} rpm")
+        ratio = _load_ratio(sc, pos, af)
+        j = int(np.argmin(ratio))
+        warns = []
+        if ratio[j] < lim:
+            warns.append(f"load P = {ratio[j]:.3g}·C in '{cases[j].name}' is below the minimum "
+                           f"{lim:g}·C (the rolling elements may skid)")
         nl = cat.limiting_speed_rpm[r]
         out.append(Candidate(
             designation=str(cat.designation[r]) + (" (matched pair)" if sp.paired else ""),
@@ -261,7 +330,8 @@ def _candidates(cat: Catalogue, sp: _Support, sc: Screen, order: np.ndarray, req
             P_N=float(sc.Pm_N[pos]), L10_h=float(sc.L10_h[pos]), Lnm_h=float(sc.Lnm_h[pos]),
             s0=float(min(sc.s0[pos], LIFE_CAP_H)),
             limiting_speed_rpm=None if np.isnan(nl) else float(nl), ok=bool(sc.ok[pos]),
-            reasons=reasons))
+            reasons=reasons, warnings=warns,
+            C_margin_pct=float((sc.C_N[pos] / required_C - 1.0) * 100.0) if required_C > 0 else None))
     return out
 
 
@@ -275,7 +345,7 @@ def _support_checks(design: Design, i: int, sp: _Support, sc: Screen, order: np.
     where = s.id
     min_txt = ", ".join(f"series {m.series}: " + (f"d = {m.d_mm:g} mm" if m.d_mm is not None else "none")
                         for m in mins)
-    top = order[0] if order.size else None
+    top = sp.rated_pos(sc, order)
     checks: list[Check] = []
     if not sp.rows.size:
         checks.append(Check(code="bearing.seat", status="warn", where=where, source=cat.name,
@@ -292,7 +362,7 @@ def _support_checks(design: Design, i: int, sp: _Support, sc: Screen, order: np.
                                     f"seat diameter or set supports[{i}].bore_mm"
                                     + (f"; smallest that passes: {min_txt}" if mins else "")))
     if top is not None:
-        c = cands[0]
+        c = cands[[int(p) for p in order].index(top)]
         life_status = "ok" if sc.life_ok[top] else "fail"
         checks.append(Check(code="bearing.life", status=life_status, where=where, value=c.Lnm_h,
                             limit=req.life_h, unit="h", source=life.src_life,
@@ -328,6 +398,19 @@ def _support_checks(design: Design, i: int, sp: _Support, sc: Screen, order: np.
                 msg += "; below 1 the film is thin and aISO lowers the life"
             checks.append(Check(code="bearing.lubrication", status=st, where=where, value=km, limit=1.0,
                                 source=SOURCE_NU1 + "; " + SOURCE_VISCOSITY, message=msg))
+        lim = minimum_load_ratio(sp.kind)
+        ratio = _load_ratio(sc, top, float(req.application_factor))
+        low = [j for j in range(len(cases)) if ratio[j] < lim]
+        for j in low or [int(np.argmin(ratio))]:
+            light = ratio[j] < lim
+            checks.append(Check(code="bearing.min_load", status="warn" if light else "ok", where=where,
+                                value=float(ratio[j]), limit=lim, unit="·C", load_case=cases[j].name,
+                                source=SOURCE_MIN_LOAD,
+                                message=f"{s.id} {c.designation}: load P = {ratio[j]:.3g}·C in '{cases[j].name}'"
+                                        + (f", below the minimum {lim:g}·C of a {word} bearing: lightly loaded "
+                                           "rolling elements skid and smear; load it more, choose a smaller "
+                                           "bearing, or preload it" if light else
+                                           f" (lowest over the cases), above the minimum {lim:g}·C")))
         if not sc.ok[order].any():
             checks.append(Check(code="bearing.candidates", status="fail", where=where,
                                 value=float(sp.bore), unit="mm", source=cat.name,
@@ -349,15 +432,48 @@ def _support_checks(design: Design, i: int, sp: _Support, sc: Screen, order: np.
     return checks
 
 
+def _friction(design: Design, sp: _Support, sc: Screen, pos: int, cat: Catalogue, life: _Life,
+              Fr: np.ndarray) -> tuple[np.ndarray, np.ndarray, str]:
+    """Palmgren friction torque [N·mm] and power loss [W] of the rated row per case, and the note."""
+    req, cases = design.requirements, design.load_cases
+    r = int(sc.idx[pos])
+    n = np.array([c.speed_rpm for c in cases], float)
+    dm = 0.5 * (float(cat.d_mm[r]) + float(cat.D_mm[r]))
+    if life.nu is not None:
+        nu, how = life.nu, f"ν = {life.nu:.3g} mm²/s"
+    elif req.lubricant is not None:
+        lub = req.lubricant
+        try:
+            nu = float(viscosity_at(lub.operating_temp_C, iso_vg=lub.iso_vg, viscosity_index=lub.viscosity_index))
+            how = f"ν = {nu:.3g} mm²/s"
+        except ValueError:
+            nu, how = None, "the lubricant's viscosity lies outside the viscosity relation"
+    else:
+        nu, how = None, "no lubricant given"
+    if nu is None:
+        nu = float(viscosity_at(70.0, iso_vg=68.0))
+        how = f"ν = {nu:.3g} mm²/s assumed, ISO VG 68 at 70 °C ({how})"
+    af = float(req.application_factor)
+    M = friction_torque_Nmm(sp.kind, dm_mm=dm, speed_rpm=n, nu_mm2_s=nu, Fr_N=Fr[:, sp.i], Fa_N=sc.Fa_N[pos],
+                            P0_N=sc.P0_N[pos] / af, C0_N=float(sc.C0_N[pos]),
+                            Y2=float(cat.Y2[r]) if np.isfinite(cat.Y2[r]) else None,
+                            tan_alpha=contact_tan(cat, r)) * (2.0 if sp.paired else 1.0)
+    W = M * 1e-3 * n * 2.0 * np.pi / 60.0
+    note = (f"friction torque {', '.join(f'{m / 1e3:.3g}' for m in M)} N·m and power loss "
+            f"{', '.join(f'{w:.3g}' for w in W)} W per case ({how}; {SOURCE_FRICTION})")
+    return M, W, note
+
+
 def _bearing_result(design: Design, i: int, sp: _Support, sc: Screen, order: np.ndarray, split: AxialSplit,
                     cat: Catalogue, life: _Life, Fr: np.ndarray, own_table: bool) -> tuple[BearingResult, list[Check]]:
     """Steps 5–7 for one support: candidates, smallest bore per series, checks, notes and
     the BearingResult."""
     s, req = sp.s, design.requirements
+    top = sp.rated_pos(sc, order)
     notes = [f"life method: {life.method}; for comparison {life.other}"]
-    if order.size:
-        alt = float(sc.Lnm_h[order[0]]) * life.a_other / life.a_R
-        notes[0] += f" (it would give {_fmt(alt)} h for {cat.designation[sc.idx[order[0]]]})"
+    if top is not None:
+        alt = float(sc.Lnm_h[top]) * life.a_other / life.a_R
+        notes[0] += f" (it would give {_fmt(alt)} h for {cat.designation[sc.idx[top]]})"
     notes.append(f"application factor {float(req.application_factor):g} applied to Fr and Fa for P and P0")
     if not own_table:
         notes.append(ILLUSTRATIVE)
@@ -366,21 +482,38 @@ def _bearing_result(design: Design, i: int, sp: _Support, sc: Screen, order: np.
                      "pair load factors (ISO 281 cl. 6.1, 6.2)")
     if s.bearing_type in INDUCED_TYPES and split.pair and i in split.pair:
         notes.append(SOURCE_INDUCED)
-    cands = _candidates(cat, sp, sc, order, req)
+    req_C = float(sc.required_C1_N[top]) if top is not None else 0.0
+    req_C_aiso = float(sc.required_C_N[top]) if top is not None and life.nu is not None else None
+    cands = _candidates(cat, sp, sc, order, req, design.load_cases, req_C)
     series_list = list(s.dimension_series) if s.dimension_series else sorted(set(cat.series[sp.rows]))
     mins = [SeriesMinimum(series=ser, d_mm=None if pos is None else float(cat.d_mm[sc.idx[pos]]),
                           designation=None if pos is None else str(cat.designation[sc.idx[pos]]))
             for ser, pos in smallest_by_series(cat, sc, series_list)]
     checks = _support_checks(design, i, sp, sc, order, split, cands, mins, cat, life, own_table)
-    top = order[0] if order.size else None
     Fa_rep = np.broadcast_to(sc.Fa_N[top] if top is not None else split.Fa_N[:, i], (len(design.load_cases),))
+    extra: dict[str, Any] = {}
+    if top is not None:
+        c = cands[[int(p) for p in order].index(top)]
+        who = "designer" if sp.chosen is not None else "ranking"
+        notes.append(f"rated bearing {c.designation}, chosen by the {who}"
+                     + ("" if sp.chosen is None or top == order[0] else
+                        f" (the ranking would put {cands[0].designation} first)"))
+        notes.append(f"required C = {_fmt(req_C)} N with aISO = 1 (ISO 281 L10 at the stated reliability, "
+                     f"duty-cycle equivalent load of {c.designation})"
+                     + (f"; {_fmt(req_C_aiso)} N with {c.designation}'s typical aISO at the stated lubrication"
+                        if req_C_aiso is not None else ""))
+        M, W, fnote = _friction(design, sp, sc, top, cat, life, Fr)
+        notes.append(fnote)
+        extra = dict(designation=c.designation, chosen_by=who, required_C_aiso_N=req_C_aiso,
+                     min_load_ratio=[float(v) for v in _load_ratio(sc, top, float(req.application_factor))],
+                     friction_torque_Nm=[float(v) / 1e3 for v in M], power_loss_W=[float(v) for v in W])
     return BearingResult(
         id=s.id, bearing_type=sp.kind, bore_mm=sp.bore,
         equivalent_load_N=float(sc.Pm_N[top]) if top is not None else 0.0,
-        required_C_N=float(sc.required_C_N[top]) if top is not None else 0.0,
+        required_C_N=req_C,
         life_method=life.method, arrangement=f"{split.roles[i]}; {split.arrangement}",
         Fr_N=[float(v) for v in Fr[:, i]], Fa_N=[float(v) for v in Fa_rep],
-        candidates=cands, smallest_by_series=mins, notes=notes), checks
+        candidates=cands, smallest_by_series=mins, notes=notes, **extra), checks
 
 
 def _rate_group(designs: Sequence[Design], Frs: Sequence[np.ndarray], Kas: Sequence[np.ndarray], cat: Catalogue,
@@ -419,13 +552,18 @@ def _rate_group(designs: Sequence[Design], Frs: Sequence[np.ndarray], Kas: Seque
         except EngineError as exc:
             out.append(exc)
             continue
-        results, checks = [], []
+        results, checks, rated, rated_C = [], [], {}, {}
         for i, sp in sups.items():
             br, ch = _bearing_result(d, i, sp, screens[i], orders[i], split, cat, life, Fr, own_table)
             results.append(br)
             checks += ch
+            pos = sp.rated_pos(screens[i], orders[i])
+            if pos is not None:
+                rated[i], rated_C[i] = int(screens[i].idx[pos]), float(screens[i].C_N[pos])
         out.append(BearingOutcome(split=split, bearings=results, checks=checks,
-                                  warnings=list(split.warnings) + list(cat.warnings) + list(life.warnings)))
+                                  warnings=list(split.warnings) + list(cat.warnings) + list(life.warnings),
+                                  rated=rated, paired={i: sp.paired for i, sp in sups.items()},
+                                  rated_C_N=rated_C, catalogue=cat))
     return out
 
 
@@ -441,8 +579,9 @@ def rate_bearings_many(designs: Sequence[Design], *, Fr_N: Sequence[np.ndarray],
     for k, d in enumerate(designs):
         try:
             check_contact_angles(d)  # before the first-pass induced ratios look the angle up
+            check_designations(d, cat)
             lives[k] = _life_method(d)
-        except EngineError as exc:
+        except (EngineError, DesignError) as exc:
             out[k] = exc
             continue
         groups.setdefault(_layout_key(d, cat), []).append(k)

@@ -55,7 +55,8 @@ class Screen:
     static_ok: np.ndarray
     speed_ok: np.ndarray
     ok: np.ndarray
-    required_C_N: np.ndarray
+    required_C_N: np.ndarray     # with the row's own aISO (what C must be for Lnm = the required life)
+    required_C1_N: np.ndarray    # with aISO = 1: the rating a designer compares bearings against
 
 
 def pair_rating_factors(bearing_type: str) -> tuple[float, float]:
@@ -136,6 +137,8 @@ def screen_rows(cat: Catalogue, idx: np.ndarray, *, bearing_type: str, Fr_N, Fa_
         P0max = P0.max(axis=-1)
         s0 = np.where(P0max > 0, C0[:, 0] / P0max, np.inf)
         req_C = np.where(np.isfinite(Lnm) & (Lnm > 0), C[:, 0] * (life_h / Lnm) ** (1.0 / p), 0.0)
+        # aISO = 1: L10 ∝ C^p at a given duty cycle, so a_R·L10(C_req) = life_h
+        req_C1 = np.where(np.isfinite(L10) & (L10 > 0), C[:, 0] * (life_h / (a_R * L10)) ** (1.0 / p), 0.0)
     nlim = cat.limiting_speed_rpm[idx]
     n_max = float(n.max())
     life_ok = Lnm >= life_h * (1.0 - 1e-12)
@@ -146,7 +149,7 @@ def screen_rows(cat: Catalogue, idx: np.ndarray, *, bearing_type: str, Fr_N, Fa_
                   Lnm_h=np.minimum(Lnm, LIFE_CAP_H), a_iso_eff=a_eff, kappa_min=kmin, s0=s0,
                   worst_static_case=P0.argmax(axis=-1), n_max_rpm=n_max, limiting_speed_rpm=nlim,
                   life_ok=life_ok, static_ok=static_ok, speed_ok=speed_ok,
-                  ok=life_ok & static_ok & speed_ok, required_C_N=req_C)
+                  ok=life_ok & static_ok & speed_ok, required_C_N=req_C, required_C1_N=req_C1)
 
 
 def rank(cat: Catalogue, sc: Screen, among: np.ndarray) -> np.ndarray:

@@ -34,9 +34,12 @@ __all__ = ["COLUMNS", "REQUIRED", "BUNDLED_PATH", "Catalogue", "parse_catalogue"
 COLUMNS = ("designation", "bearing_type", "series", "d_mm", "D_mm", "B_mm", "contact_angle_deg",
            "C_N", "C0_N", "Cu_N", "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0")
 MAX_COLUMNS = 100  # the columns above and room for a supplier's own extras
+# optional columns a table may add (design-format.md, keys added later): a_mm, the pressure
+# centre's distance from the bearing's mid-width toward its back face
+OPTIONAL = ("a_mm",)
 REQUIRED = ("designation", "bearing_type", "series", "d_mm", "D_mm", "B_mm", "C_N", "C0_N")
 _NUMERIC = ("d_mm", "D_mm", "B_mm", "contact_angle_deg", "C_N", "C0_N", "Cu_N",
-            "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0")
+            "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0", "a_mm")
 _ROW_FACTOR_TYPES = {"tapered_roller": ("e", "Y2", "Y0"),
                      "spherical_roller": ("e", "Y1", "Y2", "Y0"),
                      "self_aligning_ball": ("e", "Y1", "Y2", "Y0")}
@@ -70,6 +73,7 @@ class Catalogue:
     Y2: np.ndarray
     Y0: np.ndarray
     row_line: np.ndarray
+    a_mm: np.ndarray = field(default_factory=lambda: np.zeros(0))  # pressure centre from mid-width (NaN: not given)
     warnings: tuple[str, ...] = ()
     _by_type: dict = field(default_factory=dict, repr=False)
 
@@ -139,12 +143,12 @@ def parse_catalogue(text: str, *, name: str = "bearing table") -> Catalogue:
     dup = sorted(h for h, k in Counter(header).items() if k > 1)  # linear in the columns
     if dup:
         raise DesignError([Issue(path="header", message=f"column(s) {', '.join(dup)} appear twice")])
-    extra = [h for h in header if h not in COLUMNS]
+    extra = [h for h in header if h not in COLUMNS + OPTIONAL]
     if extra:
         warnings.append(f"{name}: column(s) {', '.join(extra)} are not used and were ignored")
     col = {h: k for k, h in enumerate(header)}
 
-    cols: dict[str, list] = {c: [] for c in COLUMNS}
+    cols: dict[str, list] = {c: [] for c in COLUMNS + OPTIONAL}
     line_no: list[int] = []
     seen: dict[str, int] = {}
     cu_estimated = 0
@@ -194,6 +198,9 @@ def parse_catalogue(text: str, *, name: str = "bearing table") -> Catalogue:
             v = vals[c]
             if v is not None and v <= 0:
                 add(f"row {n}, column {c}", f"{c} must be positive, got {v:g}")
+        if vals["a_mm"] is not None and (vals["a_mm"] < 0 or (B := vals["B_mm"]) is not None and vals["a_mm"] > 5 * B):
+            add(f"row {n}, column a_mm", f"a_mm (pressure centre from mid-width toward the back face) must lie "
+                                         f"in 0 … 5·B, got {vals['a_mm']:g}")
         if vals["Y1"] is not None and vals["Y1"] < 0:
             add(f"row {n}, column Y1", f"Y1 must not be negative, got {vals['Y1']:g}")
         C, C0 = vals["C_N"], vals["C0_N"]
@@ -250,7 +257,7 @@ def parse_catalogue(text: str, *, name: str = "bearing table") -> Catalogue:
         d_mm=f("d_mm"), D_mm=f("D_mm"), B_mm=f("B_mm"), contact_angle_deg=f("contact_angle_deg"),
         C_N=f("C_N"), C0_N=f("C0_N"), Cu_N=f("Cu_N"), limiting_speed_rpm=f("limiting_speed_rpm"),
         f0=f("f0"), e=f("e"), Y1=f("Y1"), Y2=f("Y2"), Y0=f("Y0"),
-        row_line=np.asarray(line_no, dtype=int), warnings=tuple(warnings))
+        row_line=np.asarray(line_no, dtype=int), warnings=tuple(warnings), a_mm=f("a_mm"))
 
 
 def load_catalogue(source: str | Path) -> Catalogue:

@@ -10,7 +10,10 @@ from engine.solve import _weight_density, analyse
 
 
 def analysis_of(data):
-    """Analysis after the axial resolution: the same steps as engine.solve.solve()."""
+    """Analysis after the axial resolution, on the supports as typed (rigid unless a stiffness
+    is typed, reactions at x_mm): the model these closed forms assume. engine.solve() goes on to
+    mount the rated bearings (pressure centres, bearing stiffness; issue 13), which these
+    checks of the shaft formulas leave out on purpose."""
     design = parse_design(data)
     a = analyse(design)
     Fx = rate_bearings(design, Fr_N=a.Fr_N, Fa_ext_N=a.Fa_ext_N).split.Fx_N

@@ -22,8 +22,9 @@ def test_every_arrangement_is_solved_and_ranked(cmp):
     assert [o.key for o in cmp.options if o.current] == ["ball_locating_left_roller_floating"]
     ok = [o.ok for o in cmp.options]
     assert ok == sorted(ok, reverse=True), "those meeting every requirement come first"
-    vols = [o.volume_cm3 for o in cmp.options if o.ok]
-    assert vols == sorted(vols), "then the smallest space"
+    # then fewer bearings below their minimum load (issue 13), then the smallest space
+    keys = [(len(o.light), o.volume_cm3) for o in cmp.options if o.ok]
+    assert keys == sorted(keys), "then fewer lightly loaded bearings, then the smallest space"
 
 
 def test_each_option_carries_candidates_lives_static_safety_slopes_and_space(cmp):
@@ -60,3 +61,32 @@ def test_unknown_arrangement_named():
     with pytest.raises(DesignError) as exc:
         compare_arrangements(data, keys=["sideways"])
     assert exc.value.errors[0].path == "arrangement"
+
+
+def test_a_shaft_check_failing_alike_for_every_arrangement_does_not_rank_them():
+    """Issue 13: the bevel pinion with a fatigue target no arrangement meets; the ranking still
+    follows the bearings (tapered pairs with lives of tens of thousands of hours first, not the
+    ball pair with a life of a few hundred hours), and the page says which check was set aside."""
+    from fastapi.testclient import TestClient
+
+    from app.main import create_app
+
+    data = load_sample("bevel_pinion.json")
+    data["requirements"]["fatigue_safety_min"] = 1000.0
+    cmp = compare_arrangements(data)
+    assert any(f.startswith("shaft.fatigue") for f in cmp.common_failing)
+    assert not any(o.ok for o in cmp.options)
+    first = cmp.options[0]
+    assert first.key.startswith("tapered_") and not first.deciding
+    ball = next(o for o in cmp.options if o.key == "ball_locating_left")
+    assert ball.rank > max(o.rank for o in cmp.options if o.key.startswith("tapered_"))
+    assert ball.min_life_h < 1000 < first.min_life_h
+    page = TestClient(create_app()).post("/study/arrangements", data={"design": __import__("json").dumps(data)})
+    assert page.status_code == 200 and "Failing alike for every arrangement" in page.text
+
+
+def test_back_to_back_and_face_to_face_differ_in_the_loads_they_carry():
+    """The pressure centres make the two tapered pairs different beyond the axial split."""
+    cmp = compare_arrangements(load_sample("bevel_pinion.json"))
+    o, x = (next(o for o in cmp.options if o.key == k) for k in ("tapered_back_to_back", "tapered_face_to_face"))
+    assert o.min_life_h != pytest.approx(x.min_life_h, rel=0.05)
