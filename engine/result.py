@@ -77,6 +77,8 @@ class Candidate(_Out):
     reasons: list[str] = []  # why it fails (empty when ok)
     warnings: list[str] = []  # what to watch that does not fail it (a load below the minimum load)
     C_margin_pct: float | None = None  # (C / the support's required_C_N − 1)·100
+    da_min_mm: float | None = None  # the table's shaft abutment diameter, smallest (None: not given)
+    Da_max_mm: float | None = None  # the table's housing abutment diameter, largest (None: not given)
 
 
 class SeriesMinimum(_Out):

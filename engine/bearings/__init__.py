@@ -331,8 +331,14 @@ def _candidates(cat: Catalogue, sp: _Support, sc: Screen, order: np.ndarray, req
             s0=float(min(sc.s0[pos], LIFE_CAP_H)),
             limiting_speed_rpm=None if np.isnan(nl) else float(nl), ok=bool(sc.ok[pos]),
             reasons=reasons, warnings=warns,
-            C_margin_pct=float((sc.C_N[pos] / required_C - 1.0) * 100.0) if required_C > 0 else None))
+            C_margin_pct=float((sc.C_N[pos] / required_C - 1.0) * 100.0) if required_C > 0 else None,
+            da_min_mm=_given(cat.da_min_mm, r), Da_max_mm=_given(cat.Da_max_mm, r)))
     return out
+
+
+def _given(column: np.ndarray, r: int) -> float | None:
+    """An optional table column's value at row ``r`` (None where the table leaves it out)."""
+    return float(column[r]) if r < len(column) and not np.isnan(column[r]) else None
 
 
 def _support_checks(design: Design, i: int, sp: _Support, sc: Screen, order: np.ndarray, split: AxialSplit,

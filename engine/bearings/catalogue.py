@@ -35,11 +35,12 @@ COLUMNS = ("designation", "bearing_type", "series", "d_mm", "D_mm", "B_mm", "con
            "C_N", "C0_N", "Cu_N", "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0")
 MAX_COLUMNS = 100  # the columns above and room for a supplier's own extras
 # optional columns a table may add (design-format.md, keys added later): a_mm, the pressure
-# centre's distance from the bearing's mid-width toward its back face
-OPTIONAL = ("a_mm",)
+# centre's distance from the bearing's mid-width toward its back face; da_min_mm and Da_max_mm,
+# the abutment diameters on the shaft (smallest shoulder) and in the housing (largest)
+OPTIONAL = ("a_mm", "da_min_mm", "Da_max_mm")
 REQUIRED = ("designation", "bearing_type", "series", "d_mm", "D_mm", "B_mm", "C_N", "C0_N")
 _NUMERIC = ("d_mm", "D_mm", "B_mm", "contact_angle_deg", "C_N", "C0_N", "Cu_N",
-            "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0", "a_mm")
+            "limiting_speed_rpm", "f0", "e", "Y1", "Y2", "Y0", "a_mm", "da_min_mm", "Da_max_mm")
 _ROW_FACTOR_TYPES = {"tapered_roller": ("e", "Y2", "Y0"),
                      "spherical_roller": ("e", "Y1", "Y2", "Y0"),
                      "self_aligning_ball": ("e", "Y1", "Y2", "Y0")}
@@ -74,6 +75,8 @@ class Catalogue:
     Y0: np.ndarray
     row_line: np.ndarray
     a_mm: np.ndarray = field(default_factory=lambda: np.zeros(0))  # pressure centre from mid-width (NaN: not given)
+    da_min_mm: np.ndarray = field(default_factory=lambda: np.zeros(0))  # shaft abutment, smallest (NaN: not given)
+    Da_max_mm: np.ndarray = field(default_factory=lambda: np.zeros(0))  # housing abutment, largest (NaN: not given)
     warnings: tuple[str, ...] = ()
     _by_type: dict = field(default_factory=dict, repr=False)
 
@@ -257,7 +260,8 @@ def parse_catalogue(text: str, *, name: str = "bearing table") -> Catalogue:
         d_mm=f("d_mm"), D_mm=f("D_mm"), B_mm=f("B_mm"), contact_angle_deg=f("contact_angle_deg"),
         C_N=f("C_N"), C0_N=f("C0_N"), Cu_N=f("Cu_N"), limiting_speed_rpm=f("limiting_speed_rpm"),
         f0=f("f0"), e=f("e"), Y1=f("Y1"), Y2=f("Y2"), Y0=f("Y0"),
-        row_line=np.asarray(line_no, dtype=int), warnings=tuple(warnings), a_mm=f("a_mm"))
+        row_line=np.asarray(line_no, dtype=int), warnings=tuple(warnings), a_mm=f("a_mm"),
+        da_min_mm=f("da_min_mm"), Da_max_mm=f("Da_max_mm"))
 
 
 def load_catalogue(source: str | Path) -> Catalogue:

@@ -388,3 +388,26 @@ def test_mounting_keys_are_optional_and_bad_ones_are_named():
     with pytest.raises(DesignError) as exc:
         parse_design(d)
     assert exc.value.errors[0].path == "elements[0].key" and "P1" in exc.value.errors[0].message
+
+
+def test_a_tables_own_abutment_diameter_sets_the_shoulder_limit():
+    """The contract's optional table column da_min_mm (smallest shaft abutment diameter) replaces
+    the common-practice rule: the demo's 46 mm shoulder passes against a row that says 45 mm and
+    fails against the rule's 47.5 mm (test above). Table values invented for the test."""
+    from engine.bearings.catalogue import BUNDLED_PATH
+
+    d = demo()
+    d["shaft"]["segments"][2]["d_mm"] = 46
+    d["supports"][0]["x_mm"] = 90 - 11.5
+    lines = BUNDLED_PATH.read_text(encoding="utf-8").splitlines()
+    head = next(i for i, ln in enumerate(lines) if ln.strip() and not ln.startswith("#"))
+    rows = [lines[head] + ",da_min_mm,Da_max_mm"] + [
+        ln + (",45,82" if ln.startswith("DG-03-40,") else ",,") for ln in lines[head + 1:] if ln.strip()]
+    d["bearing_table"] = {"name": "own table with abutments", "csv": "\n".join(rows)}
+    d["supports"][0]["designation"] = "DG-03-40"
+    r = solve(d)
+    cand = next(c for b in r.bearings if b.id == "A" for c in b.candidates if c.designation == "DG-03-40")
+    assert (cand.da_min_mm, cand.Da_max_mm) == (45, 82)
+    assert not [c for c in checks_of(r, "mount.shoulder_low") if c.where == "A" and c.status != "ok"]
+    seat = next(s for s in r.mounting.seats if s.support == "A")
+    assert seat.da_min_mm == 45
