@@ -466,7 +466,7 @@ def run_search(design: Any, search: Search | Sequence[Any], objectives: Sequence
         for i in idx:
             c = feas[i]
             f = cache[c]
-            doc = parse_design(_apply(data, svars, c)).model_dump(mode="json", exclude_none=True)
+            doc = parse_design(_apply(data, svars, c)).model_dump(mode="json")  # None is meaningful (no bearing)
             front.append(FrontPoint(values=dict(zip((sv.path for sv in svars), c)),
                                     objectives={o: f["objectives"][o] for o in search.objectives},
                                     feasible=True, design=doc, bearings=f["bearings"],
