@@ -7,7 +7,7 @@ from fastapi import FastAPI
 from fastapi.staticfiles import StaticFiles
 
 import engine
-from app.routers import api, designs, pages, studies
+from app.routers import api, designs, optimise, pages, studies
 from app.schema import install_openapi
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -19,7 +19,7 @@ def create_app() -> FastAPI:
                   description="Shaft-and-bearing arrangement designer. Results inform preliminary "
                               "design only; verify with supplier data and a qualified engineer.")
     app.mount("/static", StaticFiles(directory=ROOT / "static"), name="static")
-    for module in (pages, api, designs, studies):
+    for module in (pages, api, designs, studies, optimise):
         app.include_router(module.router)
     install_openapi(app)  # the API's bodies described by the engine's models (app/schema.py)
     return app
