@@ -393,10 +393,11 @@ def _changes(search: Search, values: Sequence[Any]) -> list[str]:
     out = []
     for sv, v in zip(search.variables, values):
         cur = sv.variable.current
-        if cur is None or (isinstance(v, float) and isinstance(cur, (int, float)) and abs(v - cur) < 1e-9) or v == cur:
+        if (isinstance(v, float) and isinstance(cur, (int, float)) and abs(v - cur) < 1e-9) or v == cur:
             continue
         u = f" {sv.variable.unit}" if sv.variable.unit else ""
-        out.append(f"{sv.variable.label}: {_fmt(cur) if cur is not None else 'table default'} → {_fmt(v)}{u}")
+        was = _fmt(cur) if cur is not None else "any in the table"
+        out.append(f"{sv.variable.label}: {was} → {_fmt(v)}{u}")
     return out
 
 

@@ -10,12 +10,15 @@ JSON API
 Pages
 - ``GET /optimise``: the search page on the design of ``?d=`` (as the study page carries it) or
   the demo design: mark variables and bounds, choose objectives, run.
+- ``POST /optimise/open``: the editor's form state in, an ``HX-Redirect`` to the page on that
+  design out (the editor's "find the arrangement" button).
 - ``POST /optimise/run``: the result fragment (htmx): the front plotted (the figure as JSON in a
   ``<script type="application/json">`` block, drawn by static/js/optimise.js; no inline script),
   the current design marked, and the table of front designs.
 - ``POST /optimise/apply``: one front design opened in the editor as a new working copy.
 
-Every route is a plain ``def``: FastAPI runs it on a worker thread, never on the event loop.
+Every route that solves is a plain ``def``: FastAPI runs it on a worker thread, never on the event
+loop (``/optimise/open`` only awaits the form and converts it, as ``/study/open`` does).
 """
 from __future__ import annotations
 
@@ -26,7 +29,7 @@ import math
 from typing import Any
 
 from fastapi import APIRouter, Body, Form, Request
-from fastapi.responses import HTMLResponse, JSONResponse
+from fastapi.responses import HTMLResponse, JSONResponse, Response
 
 import engine
 from engine.model import DesignError, Issue
@@ -174,6 +177,18 @@ def optimise_page(request: Request, d: str | None = None) -> HTMLResponse:
            "objectives": OBJECTIVES, "limits": LIMITS, "plotly_src": _plotly_src(),
            "engine_version": engine.__version__, "max_budget": MAX_BUDGET_S}
     return _templates().TemplateResponse(request, "optimise.html", ctx)
+
+
+@router.post("/optimise/open")
+async def optimise_open(request: Request) -> Response:
+    """From the editor: its form state in, a redirect to the search page on that design out.
+    (Reading a form is I/O; the form is turned into a design as /study/open does.)"""
+    from app import web
+    from app.routers.studies import encode_design
+
+    form = {k: v for k, v in (await request.form()).items() if isinstance(v, str)}
+    _, data, _ = web.read_form(form)
+    return Response(status_code=200, headers={"HX-Redirect": "/optimise?d=" + encode_design(data)})
 
 
 def front_plot(res: SearchResult) -> dict[str, Any]:
