@@ -16,7 +16,8 @@ The paths of :mod:`engine.study` (``supports.B.x_mm``, ``shaft.segments[i].d_mm`
 ``elements.<id>.x_mm``, ``supports.<id>.bearing_type``, ``arrangement`` …) plus
 ``supports.<id>.dimension_series`` (a choice among the bearing table's series). A number takes
 ``LOW:HIGH`` (continuous), ``LOW:HIGH:STEP`` (rounded to multiples of STEP from LOW),
-``LOW:HIGH:R20`` (or ``R10``, ``R40``: ISO 3 preferred numbers within the bounds) or a
+``LOW:HIGH:R20`` (or ``R10``, ``R40``: ISO 3 preferred numbers within the bounds),
+``LOW:HIGH:bores`` (a diameter: the bearing table's bores within the bounds) or a
 comma-separated list; a choice takes a comma-separated list or ``*``. Paths and lists are read
 by :mod:`engine.study`'s own parser (:func:`engine.study.parse_variable`,
 :func:`engine.study.parse_values`); only the ``LOW:HIGH[:STEP]`` form is read here.
@@ -195,7 +196,15 @@ def _search_variable(path: str, spec: Any, design: Design, catalogue: Any) -> Se
     parse_values(f"{lo!r},{hi!r}", var)
     values: tuple = ()
     if step:
-        if step.upper() in _R:
+        if step.lower() == "bores":
+            if not sv_is_diameter(var):
+                raise _err(var.path, "the step 'bores' rounds a diameter to the bearing table's bores; "
+                                     "use it on a diameter")
+            cat = catalogue if catalogue is not None else _catalogue(design)
+            values = tuple(float(b) for b in sorted(set(cat.d_mm.tolist())) if lo - 1e-9 <= b <= hi + 1e-9)
+            if not values:
+                raise _err(var.path, f"no bearing bore of the table lies within {lo:g}–{hi:g}{u}")
+        elif step.upper() in _R:
             values = preferred_numbers(step, lo, hi)
             if not values:
                 raise _err(var.path, f"no {step.upper()} preferred number lies within {lo:g}–{hi:g}{u}")
@@ -203,7 +212,7 @@ def _search_variable(path: str, spec: Any, design: Design, catalogue: Any) -> Se
             try:
                 st = float(step)
             except ValueError:
-                raise _err(var.path, f"the step {step!r} is not a number or R10, R20, R40") from None
+                raise _err(var.path, f"the step {step!r} is not a number, R10, R20, R40 or bores") from None
             if not (math.isfinite(st) and st > 0):
                 raise _err(var.path, f"the step {step!r} must be a positive number")
             n = int(math.floor((hi - lo) / st + 1e-9)) + 1
@@ -211,6 +220,10 @@ def _search_variable(path: str, spec: Any, design: Design, catalogue: Any) -> Se
                 raise _err(var.path, f"the step {st:g}{u} gives {n} values; take a coarser step")
             values = tuple(round(lo + k * st, 9) for k in range(n))
     return SearchVariable(variable=var, low=lo, high=hi, step=step, values=values)
+
+
+def sv_is_diameter(var: Variable) -> bool:
+    return var.path.endswith(".d_mm") or var.path.endswith(".bore_mm")
 
 
 def parse_limits(items: Sequence[str] | dict[str, float] | None) -> dict[str, float]:
@@ -273,7 +286,7 @@ class FrontPoint(_Frozen):
     """One evaluated design: the variables' values, its objectives and figures, its bearings."""
 
     values: dict[str, Any]
-    objectives: dict[str, float]
+    objectives: dict[str, float | None]     # None: does not apply (no bearing, no loaded section)
     feasible: bool
     design: dict[str, Any] = {}
     bearings: list[dict[str, Any]] = []     # id, designation, series, D_mm, B_mm, life_h, ok
@@ -385,6 +398,11 @@ def _significant(F: np.ndarray, digits: int = SIGNIFICANT) -> np.ndarray:
     return np.where(np.isfinite(F), np.round(F * scale) / scale, F)
 
 
+def _finite(v: float) -> float | None:
+    """None for a figure that does not apply (a life margin without bearings: infinite)."""
+    return v if math.isfinite(v) else None
+
+
 def _fmt(v: Any) -> str:
     return f"{v:g}" if isinstance(v, (int, float)) else str(v)
 
@@ -469,11 +487,12 @@ def run_search(design: Any, search: Search | Sequence[Any], objectives: Sequence
             f = cache[c]
             doc = parse_design(_apply(data, svars, c)).model_dump(mode="json")  # None is meaningful (no bearing)
             front.append(FrontPoint(values=dict(zip((sv.path for sv in svars), c)),
-                                    objectives={o: f["objectives"][o] for o in search.objectives},
+                                    objectives={o: _finite(f["objectives"][o]) for o in search.objectives},
                                     feasible=True, design=doc, bearings=f["bearings"],
                                     governing=f.get("governing", ""), changes=_changes(search, c)))
     current = FrontPoint(values=dict(zip((sv.path for sv in svars), cur_vals)),
-                         objectives={o: base["objectives"][o] for o in search.objectives} if base["objectives"] else {},
+                         objectives={o: _finite(base["objectives"][o]) for o in search.objectives}
+                         if base["objectives"] else {},
                          feasible=base["feasible"], bearings=base["bearings"], failing=base["failing"],
                          governing=base.get("governing", ""))
     return SearchResult(

@@ -140,3 +140,18 @@ def test_bad_input_names_the_field(vary, objective, where):
     with pytest.raises(DesignError) as exc:
         parse_search(one_step(bearings=True), vary, [objective])
     assert exc.value.errors[0].path == where
+
+
+def test_bores_step_takes_the_table_bores():
+    from engine.bearings.catalogue import bundled_catalogue
+
+    s = parse_search(one_step(bearings=True), ["shaft.segments[0].d_mm=28:52:bores"])
+    bores = sorted({float(b) for b in bundled_catalogue().d_mm if 28 <= b <= 52})
+    assert list(s.variables[0].values) == bores and len(bores) >= 3
+    with pytest.raises(DesignError):
+        parse_search(one_step(bearings=True), ["supports.A.x_mm=10:50:bores"])
+
+
+def test_life_margin_without_bearings_does_not_apply():
+    res = run_search(one_step(), ["shaft.segments[0].d_mm=30:40:5"], ["mass_kg", "life_margin"])
+    assert res.front and all(p.objectives["life_margin"] is None for p in res.front)
