@@ -15,7 +15,9 @@ from __future__ import annotations
 
 import argparse
 import json
+import signal
 import sys
+import threading
 from typing import Any
 
 from app.study_cli import _csv, format_table
@@ -107,11 +109,16 @@ def cmd_optimise(args: argparse.Namespace) -> int:
     try:
         search = parse_search(data, args.vary, args.objective or ["mass_kg"], limits=args.limit)
         bar = _Bar(args.generations)
+        previous = signal.getsignal(signal.SIGINT)
+        if threading.current_thread() is threading.main_thread():  # Ctrl-C: stop after this generation
+            signal.signal(signal.SIGINT, lambda *_: stop.__setitem__("now", True))
         try:
             res = run_search(data, search, seed=args.seed, budget_s=args.budget, pop_size=args.population,
                              generations=args.generations, progress=bar, stop=lambda: stop["now"])
         finally:
             bar.close()
+            if threading.current_thread() is threading.main_thread():
+                signal.signal(signal.SIGINT, previous)
     except DesignError as exc:
         raise InputError(args.design, *design_error_lines(exc.errors)) from None
     if args.json:
@@ -132,7 +139,7 @@ def cmd_optimise(args: argparse.Namespace) -> int:
     print(format_table(head, rows))
     print(f"\n{len(res.front)} designs on the front; {res.evaluations} designs solved ({res.feasible} meet every "
           f"requirement) by {res.method} in {res.elapsed_s:.1f} s"
-          + (" (stopped at the time budget)" if res.stopped else "") + ".")
+          + (" (stopped at the time budget or on Ctrl-C)" if res.stopped else "") + ".")
     if not res.front:
         print("No design within the bounds meets every requirement: widen the bounds or relax a limit.")
     print("Results inform design, they do not certify it: verify with the supplier's data and have a "

@@ -4,19 +4,11 @@ from __future__ import annotations
 
 import pytest
 
-from tests.browser.conftest import ARTIFACTS
-
 pytestmark = pytest.mark.browser
 
 
-def test_search_from_the_editor_to_a_front_point_and_back(live_server, browser):
-    server = live_server
-    ARTIFACTS.mkdir(parents=True, exist_ok=True)
-    page = browser.new_page(viewport={"width": 1400, "height": 1000})
-    errors, outside = [], []
-    page.on("console", lambda m: errors.append(m.text) if m.type == "error" else None)
-    page.on("request", lambda r: outside.append(r.url) if not r.url.startswith(server) and not r.url.startswith("data:") else None)
-    page.goto(server + "/")
+def test_search_from_the_editor_to_a_front_point_and_back(live_server, page, artifacts):
+    page.goto(live_server + "/")
     page.wait_for_selector("html[data-ready='1']")
     page.click("#open-search")
     page.wait_for_url("**/optimise?d=*")
@@ -39,7 +31,7 @@ def test_search_from_the_editor_to_a_front_point_and_back(live_server, browser):
     legend = " ".join(page.locator("#optimise-plot .legendtext").all_text_contents())
     assert "current design" in legend and "front" in legend
     assert page.locator("#optimise-plot .scatterlayer .trace").count() == 2  # front and the current design
-    page.screenshot(path=str(ARTIFACTS / "optimise_page.png"), full_page=True)
+    page.screenshot(path=str(artifacts / "optimise_page.png"), full_page=True)
     # bad bounds: the message names the variable
     rows.nth(k_d).locator("input[name=bounds]").fill("36:24")
     page.click("#run-search")
@@ -56,4 +48,5 @@ def test_search_from_the_editor_to_a_front_point_and_back(live_server, browser):
     page.wait_for_selector("#design-form")
     d0 = float(page.input_value("#design-form [name='shaft.segments[0].d_mm']"))
     assert 24 <= d0 < 32
-    assert [e for e in errors if "422" not in e] == [] and outside == []  # the 422: the bad bounds above
+    # the one 422 is the answer to the bad bounds above
+    assert [e for e in page.console_errors if "422" not in e] == [] and page.outside_requests == []

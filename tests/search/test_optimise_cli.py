@@ -53,3 +53,25 @@ def test_bad_input_one_line_exit_2(tmp_path, capsys):
         assert len(err) == 1 and err[0].startswith("shaftwright: ") and words in err[0], err
     assert main(["optimise", str(tmp_path / "none.json"), "--vary", "shaft.segments[0].d_mm=20:60"]) == 2
     assert "no such design file" in capsys.readouterr().err
+
+
+def test_ctrl_c_stops_after_the_generation_and_prints_the_front(tmp_path):
+    import os
+    import signal
+    import subprocess
+    import sys
+    import time
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parents[2]
+    f = _file(tmp_path, one_step())
+    proc = subprocess.Popen([sys.executable, "-m", "app.cli", "optimise", f, "--vary", "shaft.segments[0].d_mm=20:60",
+                             "--generations", "10000", "--budget", "600", "--population", "8", "--json"],
+                            cwd=root, stdout=subprocess.PIPE, stderr=subprocess.PIPE,
+                            env={**os.environ, "PYTHONPATH": str(root), "OPENBLAS_NUM_THREADS": "1"})
+    time.sleep(6)
+    proc.send_signal(signal.SIGINT)
+    out, err = proc.communicate(timeout=60)
+    assert proc.returncode == 0, err
+    body = json.loads(out)
+    assert body["stopped"] and body["front"]
