@@ -59,7 +59,7 @@ import numpy as np
 from pydantic import BaseModel, ConfigDict
 
 from engine.model import Design, DesignError, Issue, parse_design
-from engine.study import Variable, _NUM, _set, _split, parse_values, parse_variable
+from engine.study import _NUM, _RX_SEG, _SEGMENT_NUM, Variable, _set, _split, parse_values, parse_variable
 
 __all__ = ["OBJECTIVES", "LIMITS", "ENUMERATE_MAX", "MAX_VARIABLES", "SearchVariable", "Search",
            "FrontPoint", "SearchResult", "parse_search", "parse_limits", "run_search", "preferred_numbers",
@@ -407,6 +407,14 @@ def _fmt(v: Any) -> str:
     return f"{v:g}" if isinstance(v, (int, float)) else str(v)
 
 
+def _label(var: Variable) -> str:
+    """The variable in the designer's words: segments counted from 1, as the editor counts them."""
+    m = _RX_SEG.match(var.path)
+    if m:
+        return f"{_SEGMENT_NUM[m.group(2)]} of segment {int(m.group(1)) + 1}"
+    return var.label
+
+
 def _changes(search: Search, values: Sequence[Any]) -> list[str]:
     out = []
     for sv, v in zip(search.variables, values):
@@ -415,7 +423,7 @@ def _changes(search: Search, values: Sequence[Any]) -> list[str]:
             continue
         u = f" {sv.variable.unit}" if sv.variable.unit else ""
         was = _fmt(cur) if cur is not None else "any in the table"
-        out.append(f"{sv.variable.label}: {was} → {_fmt(v)}{u}")
+        out.append(f"{_label(sv.variable)}: {was} → {_fmt(v)}{u}")
     return out
 
 
@@ -497,7 +505,7 @@ def run_search(design: Any, search: Search | Sequence[Any], objectives: Sequence
                          governing=base.get("governing", ""))
     return SearchResult(
         objectives=search.objectives,
-        variables=[{"path": sv.path, "label": sv.variable.label, "unit": sv.variable.unit,
+        variables=[{"path": sv.path, "label": _label(sv.variable), "unit": sv.variable.unit,
                     "current": sv.variable.current, "low": sv.low, "high": sv.high, "step": sv.step,
                     "values": list(sv.values) if sv.variable.kind == "choice" else []} for sv in svars],
         front=front, current=current, method=used, seed=seed, evaluations=len(cache), generations=gens,

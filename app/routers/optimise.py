@@ -127,10 +127,16 @@ def search_options(design: engine.Design) -> list[dict[str, Any]]:
     """The variables offered on the page, each with default bounds around its value."""
     L = design.shaft.length_mm
     out: list[dict[str, Any]] = []
+    seats, x0 = set(), 0.0
+    for i, g in enumerate(design.shaft.segments):
+        if any(s.bearing_type is not None and s.bore_mm is None and x0 <= s.x_mm <= x0 + g.length_mm
+               for s in design.supports):
+            seats.add(i)  # a bearing sits on it: its diameter is a bore of the bearing table
+        x0 += g.length_mm
     for i, g in enumerate(design.shaft.segments):
         lo, hi = max(g.bore_mm + 1, 0.75 * g.d_mm), 1.25 * g.d_mm
         out.append({"path": f"shaft.segments[{i}].d_mm", "label": f"diameter of segment {i + 1} [mm]",
-                    "current": g.d_mm, "range": f"{math.floor(lo):g}:{math.ceil(hi):g}:1"})
+                    "current": g.d_mm, "range": f"{math.floor(lo):g}:{math.ceil(hi):g}:" + ("bores" if i in seats else "1")})
     x0 = 0.0
     for s in design.supports:
         # the seat segment the support stands on bounds its position (the bore stays a table bore)

@@ -42,7 +42,7 @@ def test_search_from_the_editor_to_a_front_point_and_back(live_server, page, art
     page.wait_for_selector("#optimise-table button.open-row")
     # the lightest design (first row): its pulley seat is the smallest on the front
     first = page.locator("#optimise-table tbody tr").first.inner_text()
-    assert "diameter of segment 0: 32 →" in first
+    assert "diameter of segment 1: 32 →" in first
     with page.expect_navigation():
         page.locator("#optimise-table button.open-row").first.click()
     page.wait_for_selector("#design-form")
