@@ -316,8 +316,9 @@ class OptimiseRequest(_Body):
         description="variables and bounds: 'PATH=LOW:HIGH' (continuous), 'PATH=LOW:HIGH:STEP' (rounded), "
                     "'PATH=LOW:HIGH:R20' (ISO 3 preferred numbers), 'PATH=a,b,c' or '*' for choices, e.g. "
                     "'shaft.segments[2].d_mm=40:60:1', 'supports.B.x_mm=200:260', 'supports.A.dimension_series=*'")
-    objectives: list[Literal["mass_kg", "bearing_space_mm2", "life_margin", "fatigue_margin"]] = Field(
-        ["mass_kg"], description="shaft mass and bearing space Σ D·B are minimised; the smallest life "
+    objectives: list[Literal["mass_kg", "bearing_space_mm2", "max_bearing_D_mm", "life_margin", "fatigue_margin"]] = Field(
+        ["mass_kg"], description="shaft mass, bearing space Σ D·B and the largest bearing outer diameter are "
+                                 "minimised; the smallest life "
                                  "margin and fatigue safety margin are maximised")
     limits: list[str] | None = Field(None, description="limits of your own, 'NAME<=VALUE': max_bearing_D_mm, "
                                                        "mass_kg, bearing_space_mm2, length_mm")

@@ -26,6 +26,7 @@ Objectives (of a solved design)
 -------------------------------
 ``mass_kg``            shaft mass (smaller is better)
 ``bearing_space_mm2``  Σ D·B of each support's chosen bearing (smaller is better)
+``max_bearing_D_mm``   the largest outer diameter of the chosen bearings (smaller is better)
 ``life_margin``        smallest Lnm/L_required over the chosen bearings (larger is better)
 ``fatigue_margin``     smallest n_fatigue/n_required over the shaft's sections (larger is better)
 
@@ -68,6 +69,7 @@ __all__ = ["OBJECTIVES", "LIMITS", "ENUMERATE_MAX", "MAX_VARIABLES", "SearchVari
 OBJECTIVES: dict[str, tuple[str, str, Literal["min", "max"]]] = {
     "mass_kg": ("shaft mass", "kg", "min"),
     "bearing_space_mm2": ("bearing space Σ D·B", "mm²", "min"),
+    "max_bearing_D_mm": ("largest bearing outer diameter", "mm", "min"),
     "life_margin": ("smallest bearing life margin Lnm/L required", "", "max"),
     "fatigue_margin": ("smallest fatigue safety margin n/n required", "", "max"),
 }
@@ -318,6 +320,7 @@ def _figures(design: Design, res: Any, limits: dict[str, float]) -> dict[str, An
                          "D_mm": c.D_mm, "B_mm": c.B_mm, "life_h": c.Lnm_h, "s0": c.s0, "ok": c.ok})
     nf = [sec.n_fatigue for sec in res.shaft.sections]
     obj = {"mass_kg": float(res.shaft.mass_kg), "bearing_space_mm2": float(space),
+           "max_bearing_D_mm": float(max(Ds)) if Ds else math.inf,
            "life_margin": float(min(lives)) if lives else math.inf,
            "fatigue_margin": float(min(nf)) / design.requirements.fatigue_safety_min if nf else math.inf}
     figs = {"max_bearing_D_mm": max(Ds) if Ds else 0.0, "length_mm": design.shaft.length_mm,

@@ -155,3 +155,11 @@ def test_bores_step_takes_the_table_bores():
 def test_life_margin_without_bearings_does_not_apply():
     res = run_search(one_step(), ["shaft.segments[0].d_mm=30:40:5"], ["mass_kg", "life_margin"])
     assert res.front and all(p.objectives["life_margin"] is None for p in res.front)
+
+
+def test_outer_diameter_objective_is_the_largest_chosen_bearing():
+    res = run_search(one_step(bearings=True), ["supports.A.dimension_series=02,03", "supports.B.dimension_series=02,03"],
+                     ["max_bearing_D_mm", "life_margin"])
+    assert res.front
+    for p in res.front:
+        assert p.objectives["max_bearing_D_mm"] == max(b["D_mm"] for b in p.bearings)
