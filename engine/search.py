@@ -293,7 +293,7 @@ class FrontPoint(_Frozen):
     design: dict[str, Any] = {}
     bearings: list[dict[str, Any]] = []     # id, designation, series, D_mm, B_mm, life_h, ok
     failing: list[str] = []                 # what keeps it from being feasible
-    governing: str = ""                     # the requirement with the least margin
+    governing: str = ""                     # the passing check with the least margin (and warnings)
     changes: list[str] = []                 # what differs from the current design, in words
 
 
@@ -329,10 +329,23 @@ def _figures(design: Design, res: Any, limits: dict[str, float]) -> dict[str, An
         if figs[name] > lim * (1 + 1e-12):
             label, unit = LIMITS[name]
             failing.append(f"{label} {figs[name]:.4g} {unit} above the limit {lim:g} {unit}")
-    margins = {"bearing life": obj["life_margin"], "shaft fatigue": obj["fatigue_margin"]}
-    gov = min(margins, key=margins.get)
     return {"feasible": not failing, "failing": failing, "objectives": obj, "bearings": bearings,
-            "governing": "" if not math.isfinite(margins[gov]) else f"{gov} (margin {margins[gov]:.3g})"}
+            "governing": _governing(res.checks)}
+
+
+def _governing(checks: Sequence[Any]) -> str:
+    """The check with the least relative margin (engine.checks.sort_checks' order), in words."""
+    from engine.checks import sort_checks
+
+    rated = [c for c in checks if c.status == "ok" and c.value is not None and c.limit]
+    warns = sum(c.status == "warn" for c in checks)
+    more = f" ({warns} warning{'s' if warns > 1 else ''} besides)" if warns else ""
+    if not rated:
+        return more.strip(" ()")
+    c = sort_checks(rated)[0]
+    what = c.code.replace(".", " ").replace("_", " ")
+    u = f" {c.unit}" if c.unit else ""
+    return f"{what}{f' at {c.where}' if c.where else ''}: {c.value:.4g}{u} against {c.limit:.4g}{u}{more}"
 
 
 def _apply(data: dict, variables: Sequence[SearchVariable], values: Sequence[Any]) -> dict:
