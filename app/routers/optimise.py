@@ -28,7 +28,7 @@ import logging
 import math
 from typing import Any
 
-from fastapi import APIRouter, Body, Form, Request
+from fastapi import APIRouter, Depends, Form, Request
 from fastapi.responses import HTMLResponse, JSONResponse, Response
 
 import engine
@@ -51,7 +51,7 @@ def _clean(v: Any) -> Any:
 
 
 def _errors(exc: DesignError) -> JSONResponse:
-    return JSONResponse(status_code=422, content={"errors": [{"path": i.path, "message": i.message}
+    return JSONResponse(status_code=getattr(exc, "status_code", 422), content={"errors": [{"path": i.path, "message": i.message}
                                                                for i in exc.errors]})
 
 
@@ -98,6 +98,18 @@ def _run(args: dict[str, Any]) -> SearchResult:
     return run_search(design, search, **args)
 
 
+async def _limited_body(request: Request) -> Any:
+    """The JSON body under the app's size and depth limits (app.limits.read_json: I/O only, on
+    the event loop), or the LimitError saying why it was refused; the route itself runs on a
+    worker thread."""
+    from app.limits import LimitError, read_json
+
+    try:
+        return await read_json(request)
+    except LimitError as exc:
+        return exc
+
+
 _EXAMPLE = {"design": {"...": "a design document, format shaft-design/1"},
             "vary": ["shaft.segments[3].d_mm=44:70", "supports.B.x_mm=242:268", "supports.B.dimension_series=*"],
             "objectives": ["mass_kg", "bearing_space_mm2"], "seed": 1, "budget_s": 10}
@@ -107,10 +119,12 @@ _EXAMPLE = {"design": {"...": "a design document, format shaft-design/1"},
              openapi_extra={"requestBody": {"required": True, "content": {"application/json": {
                  "schema": {"type": "object"}, "example": _EXAMPLE}}}},
              responses={422: {"description": "bad input: every problem with its key path"}})
-def api_optimise(body: Any = Body(...)) -> JSONResponse:
+def api_optimise(body: Any = Depends(_limited_body)) -> JSONResponse:
     """Search the marked variables within their bounds (NSGA-II, or every combination of a small
     discrete space) for the designs that meet every requirement and are best in the objectives."""
     try:
+        if isinstance(body, DesignError):
+            raise body
         res = _run(search_request(body))
     except DesignError as exc:
         return _errors(exc)

@@ -65,3 +65,10 @@ def test_page_run_and_open_in_editor(client):
     assert r.status_code == 200 and "design-form" in r.text
     r = client.post("/optimise/run", data={**form, "use": []})
     assert r.status_code == 422 and "tick at least one" in r.text
+
+
+def test_api_body_limits(client):
+    r = client.post("/api/optimise", content=b"{not json", headers={"content-type": "application/json"})
+    assert r.status_code == 422 and r.json()["errors"]
+    r = client.post("/api/optimise", content=b"[" * 5000 + b"]" * 5000, headers={"content-type": "application/json"})
+    assert r.status_code in (413, 422) and r.json()["errors"]
