@@ -1,4 +1,4 @@
-"""The ``shaftwright`` command: solve, serve, note, study, schema.
+"""The ``shaftwright`` command: solve, serve, note, study, optimise, schema.
 
 Every subcommand reads files and reports mistakes through :mod:`app.cli_io`: one line
 ``shaftwright: FILE: message`` per problem; exit status 2 for bad input, 3 for a missing
@@ -139,6 +139,15 @@ def build_parser() -> argparse.ArgumentParser:
 
     _study_args(p)
     p.set_defaults(func=cmd_study)
+    p = sub.add_parser("optimise", help="search sizes, positions and bearings for the lightest designs that pass",
+                       description="Search the design variables you mark (step diameters and lengths, "
+                                   "support and part positions, bearing types and series) within their "
+                                   "bounds for the front of designs that meet every requirement and are "
+                                   "best in the objectives you choose.")
+    from app.optimise_cli import add_arguments as _optimise_args, cmd_optimise
+
+    _optimise_args(p)
+    p.set_defaults(func=cmd_optimise)
     p = sub.add_parser("schema", help="print the JSON Schema of the design file (or --result)",
                        description="Print the JSON Schema (draft 2020-12) of the design document "
                                    "(shaft-design/1), generated from the models the engine reads; "

@@ -9,7 +9,7 @@ from fastapi.staticfiles import StaticFiles
 
 import engine
 from app import errors, security, work
-from app.routers import access, api, designs, pages, studies
+from app.routers import access, api, designs, optimise, pages, studies
 from app.schema import install_openapi
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -23,7 +23,7 @@ def create_app() -> FastAPI:
                               "design only; verify with supplier data and a qualified engineer.")
     app.mount("/static", StaticFiles(directory=ROOT / "static"), name="static")
     security.install(app)  # headers on every response; refusals answered in words
-    for module in (pages, api, designs, studies, access):
+    for module in (pages, api, designs, studies, optimise, access):
         app.include_router(module.router, dependencies=[security.GUARD])  # who asks, may they
     install_openapi(app)  # the API's bodies described by the engine's models (app/schema.py)
     errors.install(app)  # one error policy for every route (app/errors.py)

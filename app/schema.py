@@ -32,7 +32,7 @@ from engine.result import Result
 
 __all__ = ["design_schema", "result_schema", "install_openapi", "api_bodies", "DESCRIPTIONS", "RESULT_DESCRIPTIONS",
            "schema_rows", "object_rows", "schemas_html", "body_model", "markdown", "SaveRequest", "Revision", "RevisionSummary", "RevisionList", "ErrorList",
-           "StudyRequest", "ArrangementsRequest"]
+           "StudyRequest", "ArrangementsRequest", "OptimiseRequest"]
 
 DRAFT = "https://json-schema.org/draft/2020-12/schema"
 
@@ -307,6 +307,35 @@ class ArrangementsRequest(_Body):
     design: Design
 
 
+class OptimiseRequest(_Body):
+    """A design, the variables to search with their bounds, the objectives and the budget
+    (engine/search.py; ``shaftwright optimise`` takes the same)."""
+
+    design: Design
+    vary: list[Union[str, dict[str, Any]]] = Field(
+        description="variables and bounds: 'PATH=LOW:HIGH' (continuous), 'PATH=LOW:HIGH:STEP' (rounded), "
+                    "'PATH=LOW:HIGH:R20' (ISO 3 preferred numbers), 'PATH=a,b,c' or '*' for choices, e.g. "
+                    "'shaft.segments[2].d_mm=40:60:1', 'supports.B.x_mm=200:260', 'supports.A.dimension_series=*'")
+    objectives: list[Literal["mass_kg", "bearing_space_mm2", "max_bearing_D_mm", "life_margin", "fatigue_margin"]] = Field(
+        ["mass_kg"], description="shaft mass, bearing space Σ D·B and the largest bearing outer diameter are "
+                                 "minimised; the smallest life "
+                                 "margin and fatigue safety margin are maximised")
+    limits: list[str] | None = Field(None, description="limits of your own, 'NAME<=VALUE': max_bearing_D_mm, "
+                                                       "mass_kg, bearing_space_mm2, length_mm")
+    seed: int = Field(1, ge=0, description="seed; the same seed and generations give the same front")
+    budget_s: float = Field(10.0, gt=0, le=20, description="time budget [s], checked between generations")
+    generations: int = Field(60, ge=1, le=1000)
+    population: int = Field(40, ge=4, le=200)
+
+
+def _search_model() -> type[BaseModel] | None:
+    try:
+        from engine.search import SearchResult
+    except ImportError:
+        return None
+    return SearchResult
+
+
 def _study_models() -> tuple[type[BaseModel] | None, type[BaseModel] | None]:
     try:
         from engine.study import ArrangementComparison, StudyResult
@@ -330,6 +359,7 @@ def api_bodies() -> dict[tuple[str, str], tuple[Any, type[BaseModel] | None, int
         ("/api/designs/{design_id}/revisions/{n}/export", "get"): (None, Design, 200),
         ("/api/study", "post"): (StudyRequest, study, 200),
         ("/api/arrangements", "post"): (ArrangementsRequest, arrangements, 200),
+        ("/api/optimise", "post"): (OptimiseRequest, _search_model(), 200),
     }
 
 
