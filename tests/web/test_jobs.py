@@ -4,8 +4,6 @@ from __future__ import annotations
 
 import threading
 
-import pytest
-
 from app import jobs
 from engine.model import DesignError, Issue
 
@@ -36,7 +34,10 @@ def test_a_job_reports_stops_on_request_and_keeps_its_result():
 
 
 def test_an_error_is_kept_for_the_page():
-    key = jobs.start("test", lambda job: (_ for _ in ()).throw(DesignError([Issue(path="x", message="bad x")])))
+    def work(job: jobs.Job) -> None:
+        raise DesignError([Issue(path="x", message="bad x")])
+
+    key = jobs.start("test", work)
     job = jobs.get("test", key)
     _wait(job)
     assert isinstance(job.error, DesignError) and job.error.errors[0].message == "bad x" and job.result is None
@@ -61,7 +62,7 @@ def test_at_most_max_running_jobs_run_at_once():
     assert jobs.start("test", lambda job: None) is not None  # room again once they finished
 
 
-def test_finished_jobs_nobody_asked_for_are_dropped(monkeypatch):
+def test_finished_jobs_nobody_asked_for_are_dropped():
     key = jobs.start("test", lambda job: 1)
     job = jobs.get("test", key)
     _wait(job)
