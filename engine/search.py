@@ -62,7 +62,7 @@ from pydantic import BaseModel, ConfigDict
 from engine.model import Design, DesignError, Issue, parse_design
 from engine.study import _NUM, _RX_SEG, _SEGMENT_NUM, Variable, _set, _split, parse_values, parse_variable
 
-__all__ = ["OBJECTIVES", "LIMITS", "ENUMERATE_MAX", "MAX_VARIABLES", "SearchVariable", "Search",
+__all__ = ["OBJECTIVES", "LIMITS", "ENUMERATE_MAX", "MAX_VARIABLES", "SearchVariable", "Search", "combinations",
            "FrontPoint", "SearchResult", "parse_search", "parse_limits", "run_search", "preferred_numbers",
            "evaluate_designs"]
 
@@ -443,6 +443,14 @@ def _changes(search: Search, values: Sequence[Any]) -> list[str]:
     return out
 
 
+def combinations(search: Search) -> float:
+    """How many designs the search's space holds: the product of its variables' numbers of
+    values, or infinity when a variable is continuous (no step)."""
+    if all(sv.discrete for sv in search.variables):
+        return math.prod(len(sv.values) for sv in search.variables)
+    return math.inf
+
+
 def run_search(design: Any, search: Search | Sequence[Any], objectives: Sequence[str] | None = None, *,
                seed: int = 1, budget_s: float | None = 30.0, pop_size: int = 40, generations: int = 60,
                method: Literal["auto", "nsga2", "enumerate"] = "auto", limits: Any = None,
@@ -478,7 +486,7 @@ def run_search(design: Any, search: Search | Sequence[Any], objectives: Sequence
     base = evaluate_designs([data], search.limits, catalogue=catalogue)[0]
     over = lambda: (budget_s is not None and time.perf_counter() - t0 > budget_s) or (stop is not None and stop())  # noqa: E731
     stopped, gens = False, 0
-    n_disc = math.prod(len(sv.values) for sv in svars) if all(sv.discrete for sv in svars) else math.inf
+    n_disc = combinations(search)
     use_enum = method == "enumerate" or (method == "auto" and n_disc <= ENUMERATE_MAX)
     if use_enum:
         if not math.isfinite(n_disc):

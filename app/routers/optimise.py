@@ -14,7 +14,11 @@ Pages
   design out (the editor's "find the arrangement" button).
 - ``POST /optimise/run``: the result fragment (htmx): the front plotted (the figure as JSON in a
   ``<script type="application/json">`` block, drawn by static/js/optimise.js; no inline script),
-  the current design marked, and the table of front designs.
+  the current design marked, and the table of front designs. A search of more than one
+  population runs as a job on a worker thread (app/jobs.py, the study's runner): the answer is a
+  progress fragment (designs solved, generation, time of the budget, a stop button posting
+  ``POST /optimise/job/{id}/stop``) that polls ``GET /optimise/job/{id}`` until it answers with
+  the result fragment; stopped, the front of the designs solved so far.
 - ``POST /optimise/apply``: one front design opened in the editor as a new working copy.
 
 Every route that solves is a plain ``def``: FastAPI runs it on a worker thread, never on the event
@@ -33,7 +37,9 @@ from fastapi.responses import HTMLResponse, JSONResponse, Response
 
 import engine
 from engine.model import DesignError, Issue
-from engine.search import LIMITS, OBJECTIVES, SearchResult, run_search
+from engine.search import ENUMERATE_MAX, LIMITS, OBJECTIVES, SearchResult, combinations, parse_search, run_search
+
+from app import jobs
 
 __all__ = ["router", "MAX_BUDGET_S", "front_plot", "search_options"]
 
@@ -92,10 +98,13 @@ def search_request(body: Any) -> dict[str, Any]:
             "pop_size": _number(body, "population", 40, 4, 200, integer=True)}
 
 
-def _run(args: dict[str, Any]) -> SearchResult:
+def _run(args: dict[str, Any], **kw: Any) -> SearchResult:
+    """run_search on the arguments of :func:`search_request` (``search`` the ``vary`` items or a
+    parsed :class:`Search`); ``kw``: its ``progress`` and ``stop``."""
+    args = dict(args)
     design = args.pop("design")
     search = args.pop("search")
-    return run_search(design, search, **args)
+    return run_search(design, search, **args, **kw)
 
 
 async def _limited_body(request: Request) -> Any:
@@ -246,11 +255,61 @@ def _fragment(request: Request, name: str, ctx: dict, status_code: int = 200) ->
     return _templates().TemplateResponse(request, name, ctx, status_code=status_code)
 
 
+def _result_fragment(request: Request, res: SearchResult, *, stopped_on_request: bool = False) -> HTMLResponse:
+    rows = [{"k": k, "p": p, "design_json": json.dumps(p.design, ensure_ascii=False)}
+            for k, p in enumerate(res.front)]
+    return _fragment(request, "partials/optimise_result.html",
+                     {"res": res, "plot": _clean(front_plot(res)), "rows": rows, "objectives": OBJECTIVES,
+                      "stopped_on_request": stopped_on_request})
+
+
+def _errors_fragment(request: Request, issues: list[Issue], status_code: int) -> HTMLResponse:
+    return _fragment(request, "partials/optimise_errors.html", {"issues": issues}, status_code)
+
+
+def _start_job(args: dict[str, Any]) -> str | None:
+    """Start the search as a job (app.jobs): it reports after each population solved and stops
+    before the next one on request (its time budget is its own, as run_search keeps it)."""
+    def work(job: jobs.Job) -> SearchResult:
+        res = _run(dict(args), stop=job.stop_requested,
+                   progress=lambda n, gen, t: job.report(evaluations=n, generation=gen))
+        job.report(stopped_on_request=job.stop_requested() and res.stopped)
+        return res
+
+    search = args["search"]
+    n = combinations(search)
+    return jobs.start("search", work, evaluations=0, generation=0, budget_s=args["budget_s"],
+                      combinations=n if n <= ENUMERATE_MAX else None, generations=args["generations"],
+                      stopped_on_request=False)
+
+
+def _progress_fragment(request: Request, key: str, job: jobs.Job) -> HTMLResponse:
+    """'N designs solved, generation g of G, t s of the b s budget' and a bar of the share done:
+    the search ends at its last generation or at its budget, whichever comes first."""
+    f = job.figures
+    budget, t = f["budget_s"], min(job.elapsed_s, f["budget_s"])
+    of_budget = f"{t:.0f} s of the {budget:g} s budget"
+    if f["combinations"] is not None:  # every combination is solved
+        share = max(f["evaluations"] / f["combinations"], t / budget)
+        figures = f"{f['evaluations']} of {f['combinations']} combinations solved, {of_budget}"
+    else:
+        share = max(f["generation"] / f["generations"], t / budget)
+        figures = f"{f['evaluations']} designs solved, generation {f['generation']} of {f['generations']}, {of_budget}"
+    stopping = job.stop_requested()
+    label = ("Stopping after the designs in hand: " if stopping else "Searching: ") + figures
+    pct = min(100, int(100 * share))
+    return _fragment(request, "partials/job_progress.html",
+                     {"name": "search", "url": f"/optimise/job/{key}", "target": "optimise-result",
+                      "label": label, "max": 100, "value": pct, "pct": pct, "stopping": stopping})
+
+
 @router.post("/optimise/run", response_class=HTMLResponse)
 def optimise_run(request: Request, design: str = Form(""), path: list[str] = Form([]),
                  bounds: list[str] = Form([]), use: list[str] = Form([]), objective: list[str] = Form([]),
                  seed: str = Form("1"), budget: str = Form("10")) -> HTMLResponse:
-    """Run the search of the page's form; the result fragment (or the problems, 422)."""
+    """Run the search of the page's form (the problems: 422). A search of one population (every
+    combination of a small space) answers with the result fragment; a longer one runs as a job
+    (app.jobs) and answers with its progress fragment, which polls ``/optimise/job/{key}``."""
     from app.routers.studies import _form_design
 
     try:
@@ -265,13 +324,46 @@ def optimise_run(request: Request, design: str = Form(""), path: list[str] = For
                 body[key] = float(text) if key == "budget_s" else int(text)
             except ValueError:
                 raise _err(key, f"{'seed' if key == 'seed' else 'time budget'} {text!r} is not a number") from None
-        res = _run(search_request(body))
+        args = search_request(body)
+        args["search"] = parse_search(args["design"], args["search"], args["objectives"], limits=args["limits"])
+        if combinations(args["search"]) <= 2 * args["pop_size"]:  # one population: at once
+            return _result_fragment(request, _run(args))
     except DesignError as exc:
-        return _fragment(request, "partials/optimise_errors.html", {"issues": exc.errors}, 422)
-    rows = [{"k": k, "p": p, "design_json": json.dumps(p.design, ensure_ascii=False)}
-            for k, p in enumerate(res.front)]
-    return _fragment(request, "partials/optimise_result.html",
-                     {"res": res, "plot": _clean(front_plot(res)), "rows": rows, "objectives": OBJECTIVES})
+        return _errors_fragment(request, exc.errors, getattr(exc, "status_code", 422))
+    key = _start_job(args)
+    if key is None:
+        from app.routers.studies import _busy_issue
+
+        return _errors_fragment(request, [_busy_issue()], 503)
+    return _progress_fragment(request, key, jobs.get("search", key))
+
+
+@router.get("/optimise/job/{key}", response_class=HTMLResponse)
+def optimise_job(request: Request, key: str) -> HTMLResponse:
+    """A running search's progress fragment, or its result (the front) once it has finished."""
+    job = jobs.get("search", key)
+    if job is None:
+        return _errors_fragment(request, [Issue(path="", message="this search is no longer on the server (it "
+                                                "finished long ago, or the server restarted); run it again")], 404)
+    if not job.finished.is_set():
+        return _progress_fragment(request, key, job)
+    if isinstance(job.error, DesignError):
+        return _errors_fragment(request, job.error.errors, getattr(job.error, "status_code", 422))
+    if job.error is not None:
+        return _errors_fragment(request, [Issue(path="", message="the engine could not search "
+                                                f"({type(job.error).__name__}: {job.error})")], 500)
+    return _result_fragment(request, job.result, stopped_on_request=job.figures["stopped_on_request"])
+
+
+@router.post("/optimise/job/{key}/stop", response_class=HTMLResponse)
+def optimise_job_stop(request: Request, key: str) -> HTMLResponse:
+    """Ask a running search to stop after the population it is solving; the next poll shows the
+    front of the designs solved so far."""
+    job = jobs.get("search", key)
+    if job is None:
+        return HTMLResponse("", status_code=404)
+    job.stop.set()
+    return _progress_fragment(request, key, job)
 
 
 @router.post("/optimise/apply", response_class=HTMLResponse)

@@ -26,9 +26,6 @@ import hashlib
 import json
 import logging
 import math
-import secrets
-import threading
-import time
 import zlib
 from typing import Any
 
@@ -41,7 +38,7 @@ from engine.model import DesignError, Issue
 from engine.study import (ARRANGEMENTS, CHUNK, StudyResult, apply_values, compare_arrangements,
                           parse_study, run_study)
 
-from app import work
+from app import jobs, work
 from app.limits import LimitError, check_counts, parse_json, read_body
 from app.settings import get_settings
 
@@ -275,64 +272,34 @@ def _fault_fragment(request: Request, exc: Exception) -> HTMLResponse:
                      {"issues": [Issue(path="", message=f"the study could not be run ({type(exc).__name__}: {exc})")]}, 422)
 
 
-class _Job:
-    """A study running on its own worker thread: progress, a stop flag, then its result."""
-
-    def __init__(self, total: int):
-        self.total, self.done = total, 0
-        self.stop = threading.Event()
-        self.result: StudyResult | None = None
-        self.error: Exception | None = None
-        self.finished = threading.Event()
-        self.over_budget = False
-        self.started = self.touched = time.monotonic()
-
-
-_JOBS: dict[str, _Job] = {}
-_JOBS_LOCK = threading.Lock()
-_MAX_JOBS = 8            # studies running at once on one server process
-_JOB_KEEP_S = 600.0      # a finished study nobody asked for is dropped after this
-
-
-def _prune_jobs() -> None:
-    now = time.monotonic()
-    with _JOBS_LOCK:
-        for key in [k for k, j in _JOBS.items() if j.finished.is_set() and now - j.touched > _JOB_KEEP_S]:
-            del _JOBS[key]
-
-
 def _start_job(data: Any, study) -> str | None:
-    """Start the study on a worker thread; its id, or None when too many run already."""
-    _prune_jobs()
-    with _JOBS_LOCK:
-        if sum(not j.finished.is_set() for j in _JOBS.values()) >= _MAX_JOBS:
-            return None
-        key = secrets.token_urlsafe(12)
-        job = _JOBS[key] = _Job(study.n_variants)
+    """Start the study as a job (app.jobs); its key, or None when too many run already. It
+    stops between chunks: on request, or at the study budget."""
+    budget_s = get_settings().study_budget_s
 
-    def run() -> None:
-        try:
-            budget_s = get_settings().study_budget_s
-            job.result = run_study(  # stops between chunks: on request, or at the study budget
-                data, study, progress=lambda done, total: setattr(job, "done", done),
-                stop=lambda: job.stop.is_set() or time.monotonic() - job.started > budget_s)
-            job.over_budget = not job.stop.is_set() and job.result.stopped
-        except Exception as exc:  # reported on the page by the next poll
-            if not isinstance(exc, DesignError):
-                log.exception("study failed")
-            job.error = exc
-        finally:
-            job.finished.set()
+    def work(job: jobs.Job) -> StudyResult:
+        res = run_study(data, study, progress=lambda done, total: job.report(done=done),
+                        stop=lambda: job.stop_requested() or job.elapsed_s > budget_s)
+        job.report(over_budget=not job.stop_requested() and res.stopped)
+        return res
 
-    threading.Thread(target=run, name=f"study-{key}", daemon=True).start()
-    return key
+    return jobs.start("study", work, done=0, total=study.n_variants, over_budget=False)
 
 
-def _progress_fragment(request: Request, key: str, job: _Job) -> HTMLResponse:
-    return _fragment(request, "partials/study_progress.html",
-                     {"key": key, "done": job.done, "total": job.total,
-                      "pct": int(100 * job.done / job.total) if job.total else 0,
-                      "stopping": job.stop.is_set()})
+def _busy_issue() -> Issue:
+    return Issue(path="", message=f"{jobs.MAX_RUNNING} studies and searches are running on this server; "
+                                  "wait for one to finish and run this one again")
+
+
+def _progress_fragment(request: Request, key: str, job: jobs.Job) -> HTMLResponse:
+    done, total = job.figures["done"], job.figures["total"]
+    pct = int(100 * done / total) if total else 0
+    n = lambda v: "{:,}".format(v).replace(",", " ")  # noqa: E731
+    label = (("Stopping after the variants in hand: " if job.stop_requested() else "Solving: ")
+             + f"{n(done)} of {n(total)} variants done ({pct} %)")
+    return _fragment(request, "partials/job_progress.html",
+                     {"name": "study", "url": f"/study/job/{key}", "target": "study-result", "label": label,
+                      "max": total, "value": done, "pct": pct, "stopping": job.stop_requested()})
 
 
 @router.post("/study/run", response_class=HTMLResponse)
@@ -352,26 +319,16 @@ async def study_run(request: Request) -> HTMLResponse:
                              getattr(exc, "status_code", 422))
         key = _start_job(data, study)
         if key is None:
-            return _fragment(request, "partials/study_errors.html", {"issues": [Issue(
-                path="", message=f"{_MAX_JOBS} studies are running on this server; wait for one to finish "
-                                 "and run this one again")]}, 503)
-        return _progress_fragment(request, key, _JOBS[key])
+            return _fragment(request, "partials/study_errors.html", {"issues": [_busy_issue()]}, 503)
+        return _progress_fragment(request, key, jobs.get("study", key))
 
     return await run_in_threadpool(answer)
-
-
-def _job(key: str) -> _Job | None:
-    with _JOBS_LOCK:
-        job = _JOBS.get(key)
-    if job is not None:
-        job.touched = time.monotonic()
-    return job
 
 
 @router.get("/study/job/{key}", response_class=HTMLResponse)
 def study_job(request: Request, key: str) -> HTMLResponse:
     """A running study's progress fragment, or its result once it has finished."""
-    job = _job(key)
+    job = jobs.get("study", key)
     if job is None:
         return _fragment(request, "partials/study_errors.html", {"issues": [Issue(
             path="", message="this study is no longer on the server (it finished long ago, or the "
@@ -382,14 +339,14 @@ def study_job(request: Request, key: str) -> HTMLResponse:
         return _fragment(request, "partials/study_errors.html", {"issues": job.error.errors}, 422)
     if job.error is not None:
         return _fault_fragment(request, job.error)
-    return _result_fragment(request, job.result, over_budget=job.over_budget)
+    return _result_fragment(request, job.result, over_budget=job.figures["over_budget"])
 
 
 @router.post("/study/job/{key}/stop", response_class=HTMLResponse)
 def study_job_stop(request: Request, key: str) -> HTMLResponse:
     """Ask a running study to stop after the chunk it is solving; the next poll shows the
     variants solved so far."""
-    job = _job(key)
+    job = jobs.get("study", key)
     if job is None:
         return HTMLResponse("", status_code=404)
     job.stop.set()

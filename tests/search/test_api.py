@@ -10,6 +10,7 @@ from fastapi.testclient import TestClient
 
 import engine
 from app.main import create_app
+from tests.conftest import load_sample
 from tests.search.test_search import one_step
 
 
@@ -72,3 +73,51 @@ def test_api_body_limits(client):
     assert r.status_code == 422 and r.json()["errors"]
     r = client.post("/api/optimise", content=b"[" * 5000 + b"]" * 5000, headers={"content-type": "application/json"})
     assert r.status_code in (413, 422) and r.json()["errors"]
+
+
+def test_a_long_search_runs_as_a_job_with_progress_and_stops_with_the_front_so_far(client):
+    """Continuous bounds (NSGA-II, many populations): the page gets a progress fragment (designs
+    solved, generation, time of the budget, a stop button) that polls the job; stop ends the
+    search after the population in hand and the answer is the front of the designs solved so far."""
+    import time
+
+    data = load_sample("countershaft.json")
+    form = {"design": json.dumps(data), "path": ["shaft.segments[0].d_mm", "supports.B.x_mm"],
+            "bounds": ["24:36", "242:268"], "use": ["0", "1"], "objective": ["mass_kg", "fatigue_margin"],
+            "seed": "1", "budget": "20"}
+    r = client.post("/optimise/run", data=form)
+    assert r.status_code == 200 and 'id="search-progress"' in r.text, r.text
+    assert "Searching: " in r.text and "designs solved, generation " in r.text and "of the 20 s budget" in r.text
+    key = r.text.split('hx-get="/optimise/job/', 1)[1].split('"', 1)[0]
+    assert 'hx-post="/optimise/job/' + key + '/stop"' in r.text and 'id="search-progress-bar"' in r.text
+    assert client.get(f"/study/job/{key}").status_code == 404  # a search is not a study
+    for _ in range(600):  # wait until a population has been solved, so there is a front so far
+        r = client.get(f"/optimise/job/{key}")
+        assert r.status_code == 200
+        m = re.search(r"(\d+) designs solved, generation (\d+) of 60", r.text)
+        if m and int(m.group(2)) >= 1:
+            break
+        assert 'id="optimise-plot-data"' not in r.text, "the search ended before it could be stopped"
+        time.sleep(0.05)
+    assert int(m.group(1)) >= 40
+    stop = client.post(f"/optimise/job/{key}/stop")
+    assert stop.status_code == 200 and "Stopping after the designs in hand" in stop.text
+    assert 'id="stop-search"' not in stop.text
+    for _ in range(600):
+        r = client.get(f"/optimise/job/{key}")
+        if 'id="optimise-plot-data"' in r.text:
+            break
+        assert 'id="search-progress"' in r.text
+        time.sleep(0.05)
+    assert r.status_code == 200 and "stopped on request after" in r.text and "solved so far" in r.text
+    gens = int(re.search(r"stopped on request after (\d+) generations", r.text).group(1))
+    assert 1 <= gens < 60
+    fig = json.loads(re.search(r'<script type="application/json" id="optimise-plot-data">(.*?)</script>',
+                               r.text, re.S).group(1))
+    n = fig["layout"]["meta"]["n"]
+    assert n >= 1 and r.text.count('class="open-row"') == n
+    for blob in re.findall(r'<textarea name="design" hidden>(.*?)</textarea>', r.text, re.S)[:3]:
+        res = engine.solve(json.loads(unescape(blob)), diagrams=False)
+        assert not [c for c in res.checks if c.status == "fail"]  # the front so far passes every check
+    assert client.get("/optimise/job/no-such-job").status_code == 404
+    assert client.post("/optimise/job/no-such-job/stop").status_code == 404
