@@ -184,27 +184,19 @@ def search_options(design: engine.Design) -> list[dict[str, Any]]:
 
 
 def _templates():
-    from app.routers.pages import templates
+    from app.routers.studies import _templates
 
-    return templates
+    return _templates()
 
 
 @router.get("/optimise", response_class=HTMLResponse)
 def optimise_page(request: Request, d: str | None = None) -> HTMLResponse:
     """The search page on the design of the link (or the demo design)."""
-    from app.routers.studies import _design_from, _plotly_src
+    from app.routers.studies import _design_from, page_context
 
     data, issues = _design_from(request, d)
-    design, opts = None, []
-    try:
-        design = engine.parse_design(data)
-        opts = search_options(design)
-    except DesignError as exc:
-        issues = issues + list(exc.errors)
-    ctx = {"title": (data.get("name") if isinstance(data, dict) else None) or "Search",
-           "design_json": json.dumps(data, ensure_ascii=False), "issues": issues, "options": opts,
-           "objectives": OBJECTIVES, "limits": LIMITS, "plotly_src": _plotly_src(),
-           "engine_version": engine.__version__, "max_budget": MAX_BUDGET_S}
+    ctx = page_context(data, issues, search_options, "Search") | {
+        "objectives": OBJECTIVES, "limits": LIMITS, "max_budget": MAX_BUDGET_S}
     return _templates().TemplateResponse(request, "optimise.html", ctx)
 
 

@@ -212,17 +212,22 @@ def _design_from(request: Request, d: str | None) -> tuple[Any, list[Issue]]:
         return _demo(), list(exc.errors)
 
 
-def _render_page(request: Request, data: Any, issues: list[Issue], status_code: int = 200) -> HTMLResponse:
+def page_context(data: Any, issues: list[Issue], options_of, default_title: str) -> dict[str, Any]:
+    """What the study and the search pages share: the design (or its problems, added to
+    ``issues``), the variables ``options_of(design)`` offers, the title and the scripts."""
     design, opts = None, []
     try:
         design = engine.parse_design(data)
-        opts = variable_options(design)
+        opts = options_of(design)
     except DesignError as exc:
         issues = issues + list(exc.errors)
-    ctx = {"title": (data.get("name") if isinstance(data, dict) else None) or "Study",
-           "design_json": json.dumps(data, ensure_ascii=False), "design": design, "issues": issues,
-           "options": opts, "plotly_src": _plotly_src(), "engine_version": engine.__version__,
-           "arrangements": ARRANGEMENTS, "back": "/"}
+    return {"title": (data.get("name") if isinstance(data, dict) else None) or default_title,
+            "design_json": json.dumps(data, ensure_ascii=False), "design": design, "issues": issues,
+            "options": opts, "plotly_src": _plotly_src(), "engine_version": engine.__version__}
+
+
+def _render_page(request: Request, data: Any, issues: list[Issue], status_code: int = 200) -> HTMLResponse:
+    ctx = page_context(data, issues, variable_options, "Study") | {"arrangements": ARRANGEMENTS, "back": "/"}
     return _templates().TemplateResponse(request, "study.html", ctx, status_code=status_code)
 
 
